@@ -1,0 +1,28 @@
+#pragma once
+// Small text helpers shared by the loaders.
+
+#include <string>
+#include <string_view>
+#include <vector>
+
+namespace readyby {
+
+/// Levenshtein distance between `a` and `b` (insert, delete, substitute = 1).
+size_t edit_distance(std::string_view a, std::string_view b);
+
+/// The candidate nearest to `word`, when it is close enough to be a plausible
+/// typo (distance <= max(2, |word|/3)); empty otherwise. Ties go to the first
+/// candidate in order.
+std::string nearest(std::string_view word, const std::vector<std::string>& candidates);
+
+/// " (did you mean 'X'?)" for the nearest candidate, or "" when none is close.
+std::string did_you_mean(std::string_view word, const std::vector<std::string>& candidates);
+
+/// Byte offset of the first byte that is not part of valid UTF-8, or npos when
+/// the whole text is valid UTF-8 (RFC 3629: no overlongs, no surrogates, <= U+10FFFF).
+size_t invalid_utf8_offset(std::string_view text);
+
+/// JSON string literal for `s` (RFC 8259 escaping), quotes included.
+std::string json_quote(std::string_view s);
+
+}  // namespace readyby
