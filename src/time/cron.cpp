@@ -71,7 +71,7 @@ bool parse_value(const FieldSpec& spec, std::string_view s, size_t base, int* ou
   *err = {std::string(spec.name) + " field: '" + std::string(s) + "' is not a valid value" +
               (spec.names ? std::string(" (use ") + std::to_string(spec.min) + "-" + std::to_string(spec.max) +
                                 " or " + spec.names[0] + "-" +
-                                spec.names[spec.max - spec.names_base > 6 ? 11 : 6] + ")"
+                                spec.names[spec.names == kMonthNames ? 11 : 6] + ")"
                           : ""),
           base};
   return false;
