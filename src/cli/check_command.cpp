@@ -1,11 +1,119 @@
+#include <unistd.h>
+
+#include <chrono>
+#include <cstdlib>
+#include <iostream>
+
 #include "cli/commands.h"
+#include "engine/check.h"
+#include "plan/plan_loader.h"
+#include "report/check_json.h"
+#include "report/check_text.h"
+#include "util/text.h"
 
 namespace readyby {
+
+namespace {
+
+struct CheckOptions {
+  std::string plan_path;
+  std::optional<LocalDays> from;
+  int days = 28;
+  std::string format = "text";
+  std::string run;  // MODEL@LOCAL-DATETIME
+};
+
+// Parses check's arguments; returns an error message or "".
+std::string parse_check_args(const std::vector<std::string>& args, CheckOptions* o) {
+  for (size_t i = 0; i < args.size(); ++i) {
+    const std::string& a = args[i];
+    auto value = [&](const char* name) -> std::optional<std::string> {
+      std::string prefix = std::string(name) + "=";
+      if (a.starts_with(prefix)) return a.substr(prefix.size());
+      if (a == name && i + 1 < args.size()) return args[++i];
+      return std::nullopt;
+    };
+    if (a.starts_with("--from")) {
+      auto v = value("--from");
+      if (!v || !(o->from = parse_date(*v))) return "--from needs a date YYYY-MM-DD";
+    } else if (a.starts_with("--days")) {
+      auto v = value("--days");
+      char* end = nullptr;
+      long n = v ? std::strtol(v->c_str(), &end, 10) : 0;
+      if (!v || v->empty() || *end || n < 1 || n > 3660) return "--days needs a whole number from 1 to 3660";
+      o->days = static_cast<int>(n);
+    } else if (a.starts_with("--format")) {
+      auto v = value("--format");
+      if (!v || (*v != "text" && *v != "json")) return "--format must be text or json";
+      o->format = *v;
+    } else if (a.starts_with("--run")) {
+      auto v = value("--run");
+      if (!v || v->find('@') == std::string::npos) return "--run needs MODEL@YYYY-MM-DDTHH:MM";
+      o->run = *v;
+    } else if (a.starts_with("-")) {
+      return "unknown option '" + a + "'";
+    } else if (o->plan_path.empty()) {
+      o->plan_path = a;
+    } else {
+      return "check takes one PLAN file";
+    }
+  }
+  if (o->plan_path.empty()) return "check needs a PLAN file";
+  if (!o->run.empty() && o->from) return "--run and --from cannot be combined";
+  return "";
+}
+
+bool use_colour() {
+  const char* no_colour = std::getenv("NO_COLOR");
+  if (no_colour && *no_colour) return false;
+  const char* term = std::getenv("TERM");
+  if (term && std::string(term) == "dumb") return false;
+  return isatty(STDOUT_FILENO);
+}
+
+int explain_run(const Plan& plan, const CheckOptions& o) {
+  const Command& self = command_table()[1];
+  size_t at = o.run.find('@');
+  std::string model_id = o.run.substr(0, at);
+  int model = plan.find_model(model_id);
+  if (model < 0) {
+    std::vector<std::string> ids;
+    for (const Model& m : plan.models) ids.push_back(m.id);
+    return usage_error("no model '" + model_id + "' in " + o.plan_path + did_you_mean(model_id, ids), self.usage);
+  }
+  std::optional<LocalTime> local = parse_local_datetime(o.run.substr(at + 1));
+  if (!local) return usage_error("--run needs MODEL@YYYY-MM-DDTHH:MM (a local time in the model's zone)", self.usage);
+  const Zone* zone = plan.models[static_cast<size_t>(model)].zone;
+  Evaluation ev = evaluate_single(plan, model, zone->from_local(*local));
+  if (o.format == "json") write_run_explanation_json(std::cout, plan, ev);
+  else write_run_explanation_text(std::cout, plan, ev, TextStyle{use_colour()});
+  return ev.ok() ? kExitOk : kExitFindings;
+}
+
+}  // namespace
 
 int cmd_check(const std::vector<std::string>& args) {
   const Command& self = command_table()[1];
   if (wants_help(args, self.usage)) return kExitOk;
-  return usage_error("check is not available yet", self.usage);
+  CheckOptions o;
+  std::string problem = parse_check_args(args, &o);
+  if (!problem.empty()) return usage_error(problem, self.usage);
+  PlanLoadResult loaded = load_plan_file(o.plan_path);
+  if (!loaded.plan) {
+    std::cerr << loaded.rendered;
+    return kExitBadInput;
+  }
+  const Plan& plan = *loaded.plan;
+  if (!o.run.empty()) return explain_run(plan, o);
+  if (!o.from) {
+    Instant now = std::chrono::time_point_cast<Seconds>(std::chrono::system_clock::now());
+    o.from = date::floor<date::days>(plan.zone->to_local(now));
+  }
+  Evaluation ev = evaluate(plan, *o.from, o.days);
+  if (o.format == "json") write_check_json(std::cout, plan, ev);
+  else write_check_text(std::cout, plan, ev, TextStyle{use_colour()});
+  std::cout.flush();
+  return ev.ok() ? kExitOk : kExitFindings;
 }
 
 }  // namespace readyby

@@ -1,0 +1,87 @@
+#pragma once
+// Run evaluation (DESIGN §4 "A run", "Findings"): every run of every model in
+// a window of local dates, each feature's needs_data_through, ready_at, slack
+// and status, and the plan-wide findings. Pure computation over a loaded plan.
+
+#include <memory>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "engine/freshness.h"
+#include "plan/lineage.h"
+#include "plan/plan.h"
+
+namespace readyby {
+
+enum class FeatureStatus { ok, late, never };
+enum class RunStatus { ok, degraded, fail };
+const char* to_string(FeatureStatus s);
+const char* to_string(RunStatus s);
+
+struct FeatureResult {
+  int feature = -1;                  // node index
+  bool optional = false;
+  Instant needs_data_through;        // run - max_age
+  std::optional<Instant> ready_at;   // nullopt: never
+  int64_t slack_seconds = 0;         // run - ready_at; 0 when never
+  FeatureStatus status = FeatureStatus::ok;
+};
+
+struct RunResult {
+  int model = -1;
+  Instant at;
+  RunStatus status = RunStatus::ok;
+  std::vector<FeatureResult> features;  // in the model's `features` order
+};
+
+struct Finding {
+  std::string kind;     // "lookback" | "unused"
+  int feature = -1;     // node index, lookback only
+  int source = -1;      // node index, lookback only
+  int node = -1;        // node index, unused only
+  std::string message;
+};
+
+/// The result of evaluating a plan over a window. Holds the freshness engine
+/// so that chains can be produced on demand (storing every chain of a large
+/// check would cost far more memory than computing the few that are read).
+class Evaluation {
+ public:
+  LocalDays from;
+  int days = 0;
+  std::vector<RunResult> runs;       // by instant, then model id
+  std::vector<Finding> findings;     // lookback findings, then unused, in plan order
+
+  /// False iff some run fails.
+  bool ok() const;
+  /// The chain behind a feature result: node indices from a source to the feature.
+  std::vector<int> chain(const FeatureResult& f) const { return engine_->chain(f.feature, f.needs_data_through); }
+  /// E_n(w) for any node upstream of a model feature, w within the evaluated range.
+  std::optional<Instant> ready(int node, Instant w) const { return engine_->ready(node, w); }
+  const FreshnessEngine& engine() const { return *engine_; }
+
+  std::unique_ptr<FreshnessEngine> engine_;
+  std::unique_ptr<Lineage> lineage_;
+};
+
+/// How far past the window the engine answers queries, so that reports can
+/// ask "how much later would the run have to start" (DESIGN §5 text report).
+inline constexpr int64_t kLaterStartSearch = 2 * kSecondsPerDay;
+
+/// Every run of every model whose local date (model zone) is in
+/// [from, from + days), evaluated as DESIGN §4 says; runs of one model that
+/// fall on the same instant are one run.
+Evaluation evaluate(const Plan& plan, LocalDays from, int days);
+
+/// The runs of one model at one instant, evaluated alone (for --run). The
+/// instant need not be a scheduled run.
+Evaluation evaluate_single(const Plan& plan, int model, Instant at);
+
+/// Runs of `model` with local date in [from, from + days): their instants, sorted.
+std::vector<Instant> run_instants(const Plan& plan, const Model& model, LocalDays from, int days);
+
+/// Plan-wide findings (lookback, unused).
+std::vector<Finding> plan_findings(const Plan& plan, const Lineage& lineage);
+
+}  // namespace readyby
