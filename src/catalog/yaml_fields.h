@@ -41,7 +41,7 @@ class FieldReader {
   /// One of `choices`, with a did-you-mean.
   std::optional<std::string> choice(const YamlNode& map, const char* key, const std::string& what,
                                     const std::vector<std::string>& choices);
-  /// An ISO 8601 duration (duration.h); `example` completes "such as ...".
+  /// An ISO 8601 duration (duration.h).
   std::optional<Duration> duration(const YamlNode& map, const char* key, const std::string& what);
 
   /// Position of the key whose value is `value` in `map` (the map's own position if not found).

@@ -89,7 +89,7 @@ struct PendingRun {
   Instant at;
 };
 
-Evaluation evaluate_runs(const Plan& plan, std::vector<PendingRun> pending) {
+Evaluation evaluate_runs(const Plan& plan, std::vector<PendingRun> pending, const ObservedDeliveries* observed) {
   Evaluation ev;
   std::sort(pending.begin(), pending.end(), [&](const PendingRun& a, const PendingRun& b) {
     if (a.at != b.at) return a.at < b.at;
@@ -110,7 +110,7 @@ Evaluation evaluate_runs(const Plan& plan, std::vector<PendingRun> pending) {
   }
   if (w_lo > w_hi) w_lo = w_hi = 0;
   ev.engine_ = std::make_unique<FreshnessEngine>(plan, *ev.lineage_, needed, from_unix(w_lo),
-                                                 from_unix(w_hi + kLaterStartSearch));
+                                                 from_unix(w_hi + kLaterStartSearch), observed);
   ev.runs.reserve(pending.size());
   for (const PendingRun& p : pending) {
     const Model& model = plan.models[static_cast<size_t>(p.model)];
@@ -144,19 +144,19 @@ Evaluation evaluate_runs(const Plan& plan, std::vector<PendingRun> pending) {
 
 }  // namespace
 
-Evaluation evaluate(const Plan& plan, LocalDays from, int days) {
+Evaluation evaluate(const Plan& plan, LocalDays from, int days, const ObservedDeliveries* observed) {
   std::vector<PendingRun> pending;
   for (size_t m = 0; m < plan.models.size(); ++m) {
     for (Instant at : run_instants(plan, plan.models[m], from, days)) pending.push_back({static_cast<int>(m), at});
   }
-  Evaluation ev = evaluate_runs(plan, std::move(pending));
+  Evaluation ev = evaluate_runs(plan, std::move(pending), observed);
   ev.from = from;
   ev.days = days;
   return ev;
 }
 
 Evaluation evaluate_single(const Plan& plan, int model, Instant at) {
-  Evaluation ev = evaluate_runs(plan, {{model, at}});
+  Evaluation ev = evaluate_runs(plan, {{model, at}}, nullptr);
   ev.from = date::floor<date::days>(plan.models[static_cast<size_t>(model)].zone->to_local(at));
   ev.days = 1;
   return ev;

@@ -71,8 +71,9 @@ inline constexpr int64_t kLaterStartSearch = 2 * kSecondsPerDay;
 
 /// Every run of every model whose local date (model zone) is in
 /// [from, from + days), evaluated as DESIGN §4 says; runs of one model that
-/// fall on the same instant are one run.
-Evaluation evaluate(const Plan& plan, LocalDays from, int days);
+/// fall on the same instant are one run. With `observed`, monitored nodes use
+/// their recorded deliveries (DESIGN §7); "never" then means "not landed".
+Evaluation evaluate(const Plan& plan, LocalDays from, int days, const ObservedDeliveries* observed = nullptr);
 
 /// The runs of one model at one instant, evaluated alone (for --run). The
 /// instant need not be a scheduled run.

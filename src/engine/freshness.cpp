@@ -29,11 +29,13 @@ void Profile::push(ProfilePiece piece) {
 }
 
 FreshnessEngine::FreshnessEngine(const Plan& plan, const Lineage& lineage, const std::vector<bool>& needed,
-                                 Instant w_from, Instant w_to)
+                                 Instant w_from, Instant w_to, const ObservedDeliveries* observed)
     : plan_(plan), profiles_(plan.nodes.size()), lo_(to_unix(w_from)), hi_(to_unix(w_to)) {
   for (int n : lineage.topological_order()) {
     if (!needed[static_cast<size_t>(n)]) continue;
-    if (plan_.nodes[static_cast<size_t>(n)].kind == NodeKind::source) build_source(n, lo_, hi_);
+    if (observed && static_cast<size_t>(n) < observed->size() && (*observed)[static_cast<size_t>(n)]) {
+      build_observed(n, *(*observed)[static_cast<size_t>(n)]);
+    } else if (plan_.nodes[static_cast<size_t>(n)].kind == NodeKind::source) build_source(n, lo_, hi_);
     else build_derived(n);
   }
 }
@@ -66,6 +68,29 @@ void FreshnessEngine::build_source(int n, int64_t lo, int64_t hi) {
     p.push({upto, o + lands_after, -1, Kind::constant});
     search_from = o + 1;
   }
+}
+
+void FreshnessEngine::build_observed(int n, const std::vector<Delivery>& deliveries) {
+  // E(w) = min landed_at over deliveries with data_through >= w: for w in
+  // (d_{k-1}, d_k] (distinct data_through values, ascending) it is the
+  // minimum landed_at over deliveries with data_through >= d_k.
+  std::vector<Delivery> sorted = deliveries;
+  std::sort(sorted.begin(), sorted.end(),
+            [](const Delivery& a, const Delivery& b) { return a.data_through < b.data_through; });
+  std::vector<ProfilePiece> reversed;
+  int64_t best = kForever;
+  for (size_t i = sorted.size(); i-- > 0;) {
+    best = std::min(best, to_unix(sorted[i].landed_at));
+    int64_t through = to_unix(sorted[i].data_through);
+    if (!reversed.empty() && reversed.back().upto == through) {
+      reversed.back().value = best;
+    } else {
+      reversed.push_back({through, best, -1, Kind::constant});
+    }
+  }
+  Profile& p = profiles_[static_cast<size_t>(n)];
+  for (size_t i = reversed.size(); i-- > 0;) p.push(reversed[i]);
+  p.push({kForever, 0, -1, Kind::never});
 }
 
 namespace {

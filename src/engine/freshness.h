@@ -68,13 +68,28 @@ class Profile {
 
 inline constexpr int64_t kForever = INT64_MAX / 4;
 
+/// A recorded delivery of a node (DESIGN §7): it landed at `landed_at` and
+/// holds data through `data_through`.
+struct Delivery {
+  Instant landed_at;
+  Instant data_through;
+};
+
+/// Recorded deliveries by node index. A node present here (even with an
+/// empty list) is *monitored*: its E(w) is the earliest `landed_at` among its
+/// deliveries with `data_through >= w`, and never ("not landed") when there is
+/// none; its chain is the node alone. Only `ok` deliveries belong here.
+using ObservedDeliveries = std::vector<std::optional<std::vector<Delivery>>>;
+
 class FreshnessEngine {
  public:
   /// Builds the profiles of every node in `nodes_needed` (a mask over
   /// plan.nodes; nodes upstream of a needed node must be needed too) for
   /// queries with w in [w_from, w_to]. `plan` must outlive the engine.
+  /// With `observed` (indexed like plan.nodes), monitored nodes use their
+  /// recorded deliveries instead of their declared schedule.
   FreshnessEngine(const Plan& plan, const Lineage& lineage, const std::vector<bool>& nodes_needed, Instant w_from,
-                  Instant w_to);
+                  Instant w_to, const ObservedDeliveries* observed = nullptr);
 
   /// E_n(w): nullopt when never. `w` must lie in the range given at construction.
   std::optional<Instant> ready(int node, Instant w) const;
@@ -87,6 +102,7 @@ class FreshnessEngine {
 
  private:
   void build_source(int node, int64_t lo, int64_t hi);
+  void build_observed(int node, const std::vector<Delivery>& deliveries);
   void build_derived(int node);
   void apply_trigger(int node, const Profile& max_of_inputs, Profile* out);
 
