@@ -103,24 +103,23 @@ void write_check_text(std::ostream& out, const Plan& plan, const Evaluation& ev,
       }
       out << "      not fresh: " << late << "\n";
       out << "      chain: " << ids(plan, p.critical_chain, " → ") << "\n";
-      std::string fix;
-      if (p.land_earlier_seconds) {
-        fix = "'" + plan.nodes[static_cast<size_t>(p.critical_source)].id + "' would have to land " +
-              human_duration(*p.land_earlier_seconds) + " earlier";
+      if (p.fix) {
+        out << "      fix: " << p.fix->text
+            << (p.runs.size() > 1 ? " (worst run, " + format_local(model.zone->to_local(ev.runs[p.worst_run].at)) + ")" : "")
+            << "\n";
       }
       if (p.start_later_seconds) {
-        fix += (fix.empty() ? "the run would have to start " : ", or the run would have to start ") +
-               human_duration(*p.start_later_seconds) + " later";
+        out << "      or: start the run " << human_duration(*p.start_later_seconds) << " later"
+            << (p.runs.size() > 1 ? " (enough for every run of this pattern)" : "") << "\n";
       } else {
-        fix += std::string(fix.empty() ? "" : "; ") + "no later start within " +
-               human_duration(kLaterStartSearch) + " fixes it";
+        out << "      or: no later start within " << human_duration(kLaterStartSearch) << " fixes it\n";
       }
-      out << "      fix: " << fix << "\n";
       for (int job : p.stale_jobs) {
+        if (p.fix && p.fix->node == job) continue;  // the fix already says it
         const Node& n = plan.nodes[static_cast<size_t>(job)];
         out << "      " << paint(kYellow, "stale read") << ": " << to_string(n.kind) << " '" << n.id
-            << "' starts on a fixed schedule (" << n.trigger->text
-            << ") before its input has landed; that start reads old data and the new data waits for the next start\n";
+            << "' starts on a fixed schedule (\"" << n.trigger->text
+            << "\") before its input has landed; that start reads old data\n";
       }
       out << paint(kDim, "      runs: ");
       std::string runs;

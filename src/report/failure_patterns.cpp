@@ -55,6 +55,94 @@ std::vector<ChainStep> explain_chain(const Plan& plan, const Evaluation& ev, con
   return steps;
 }
 
+
+namespace {
+
+std::string hhmm(Instant t, const Zone* zone) { return format_local(zone->to_local(t)).substr(11); }
+
+// When occurrence `c` of `cron` is a local time in a spring-forward gap read
+// with the earlier offset, the nominal "HH:MM" it was written for; else "".
+std::string gap_nominal(const Cron& cron, const Zone& zone, Instant c) {
+  LocalTime actual = zone.to_local(c);
+  for (int back = 1; back <= 180; ++back) {
+    LocalTime l = actual - Seconds(back * 60);
+    auto day = date::floor<date::days>(l);
+    int minute_of_day = static_cast<int>((l - day).count() / 60);
+    if (!((cron.hours >> (minute_of_day / 60)) & 1) || !((cron.minutes >> (minute_of_day % 60)) & 1)) continue;
+    if (zone.from_local(l) == c) return format_local(l).substr(11);
+  }
+  return "";
+}
+
+}  // namespace
+
+std::optional<Fix> fix_for(const Plan& plan, const Evaluation& ev, const RunResult& run, const FeatureResult& feature) {
+  if (feature.status != FeatureStatus::late) return std::nullopt;
+  const Zone* zone = plan.models[static_cast<size_t>(run.model)].zone;
+  std::vector<ChainStep> steps = explain_chain(plan, ev, feature, run.at);
+  auto id = [&](size_t i) { return "'" + plan.nodes[static_cast<size_t>(steps[i].node)].id + "'"; };
+  // The step closest to the feature that is late on its own account: a
+  // cron-triggered node (its fixed start quantises everything upstream), or
+  // else the delivery at the head of the chain.
+  size_t target = 0;
+  for (size_t i = steps.size(); i-- > 1;) {
+    const Node& n = plan.nodes[static_cast<size_t>(steps[i].node)];
+    if (n.trigger && steps[i].ready && steps[i].latest && *steps[i].ready > *steps[i].latest) {
+      target = i;
+      break;
+    }
+  }
+  Fix fix;
+  if (target > 0) {
+    const Node& job = plan.nodes[static_cast<size_t>(steps[target].node)];
+    const Seconds run_time(job.run_time.seconds);
+    Instant started = *steps[target].ready - run_time;
+    Instant start_by = *steps[target].latest - run_time;
+    Instant input_landed = *steps[target - 1].ready;
+    std::string what = std::string(to_string(job.kind)) + " " + id(target);
+    if (input_landed > start_by) {
+      // Even a start at the last moment would find its input missing.
+      fix.node = steps[target - 1].node;
+      fix.seconds = (input_landed - start_by).count();
+      fix.text = id(target - 1) + " lands at " + hhmm(input_landed, zone) + ", after the last start of " + what +
+                 " that could still be on time (" + hhmm(start_by, zone) + "); it would have to land " +
+                 human_duration(fix.seconds) + " earlier";
+      return fix;
+    }
+    fix.node = steps[target].node;
+    fix.move_start = true;
+    if (steps[target].stale_start) {
+      Instant stale = *steps[target].stale_start;
+      fix.seconds = (input_landed - stale).count();
+      fix.text = what + " starts at " + hhmm(stale, zone) + " (\"" + job.trigger->text + "\") before " +
+                 id(target - 1) + " lands at " + hhmm(input_landed, zone) +
+                 ", so that start reads old data and the new data waits for the next start at " +
+                 format_local(zone->to_local(started)) + "; start it between " + hhmm(input_landed, zone) + " and " +
+                 hhmm(start_by, zone) + ", or have " + id(target - 1) + " land " + human_duration(fix.seconds) +
+                 " earlier";
+      return fix;
+    }
+    fix.seconds = (started - start_by).count();
+    std::string nominal = gap_nominal(*job.trigger, *job.zone, started);
+    fix.text = what + " starts at " + hhmm(started, zone) +
+               (nominal.empty() ? "" : " (its " + nominal + " start falls in the daylight-saving gap that day)") +
+               "; to be on time it would have to start by " + hhmm(start_by, zone) + " (" +
+               human_duration(fix.seconds) + " earlier)";
+    return fix;
+  }
+  fix.node = steps[0].node;
+  if (!steps[0].ready || !steps[0].latest) return std::nullopt;
+  fix.seconds = (*steps[0].ready - *steps[0].latest).count();
+  const Node& source = plan.nodes[static_cast<size_t>(steps[0].node)];
+  fix.text = id(0) + " lands at " + format_local(zone->to_local(*steps[0].ready)) + "; it would have to land by " +
+             format_local(zone->to_local(*steps[0].latest)) + " (" + human_duration(fix.seconds) + " earlier)";
+  if (source.kind == NodeKind::source && source.schedule) {
+    std::string nominal = gap_nominal(*source.schedule, *source.zone, *steps[0].ready - Seconds(source.lands_after.seconds));
+    if (!nominal.empty()) fix.text += "; its " + nominal + " delivery falls in the daylight-saving gap that day";
+  }
+  return fix;
+}
+
 std::optional<int64_t> later_start_needed(const Plan& plan, const Evaluation& ev, const RunResult& run) {
   const Model& model = plan.models[static_cast<size_t>(run.model)];
   int64_t delay = 0;
@@ -107,6 +195,14 @@ bool near_daylight_saving(const Plan& plan, const Evaluation& ev, const RunResul
       *detail = "a daylight-saving change in " + z->name() + " (clocks " +
                 (after > before ? "forward " : "back ") + human_duration(after > before ? after - before : before - after) +
                 " on " + format_local(z->to_local(changes[0])).substr(0, 10) + ")";
+      // Zones on the chain that did not change keep their clocks: their
+      // deliveries move by the difference, as seen from the changed zone.
+      std::string steady;
+      for (const Zone* other : zones) {
+        if (other == z || !other->transitions_in(changes[0] - Seconds(36 * 3600), changes[0] + Seconds(36 * 3600)).empty()) continue;
+        steady += (steady.empty() ? "" : ", ") + other->name();
+      }
+      if (!steady.empty()) *detail += " while " + steady + " kept its clocks";
       return true;
     }
   }
@@ -143,37 +239,33 @@ std::vector<FailurePattern> failure_patterns(const Plan& plan, const Evaluation&
 
     auto finish = [&](FailurePattern p, const std::vector<const RunInfo*>& infos) {
       p.model = static_cast<int>(m);
-      // The fix: the worst run decides how much earlier the delivery must land.
-      int64_t earlier = 0;
-      bool earlier_known = true;
+      // The worst run (most negative slack) of the group decides the fix.
+      int64_t worst_slack = INT64_MAX;
       std::optional<int64_t> later = 0;
       std::set<int> stale;
       for (const RunInfo* info : infos) {
         const RunResult& run = ev.runs[info->index];
         p.runs.push_back(info->index);
         const FeatureResult& worst = run.features[static_cast<size_t>(info->worst_feature_pos)];
+        int64_t slack = worst.status == FeatureStatus::never ? INT64_MIN : worst.slack_seconds;
         std::vector<ChainStep> steps = explain_chain(plan, ev, worst, run.at);
-        int64_t run_earlier = 0;
-        if (steps.front().ready && steps.front().latest) {
-          run_earlier = (*steps.front().ready - *steps.front().latest).count();
-        } else {
-          earlier_known = false;
+        for (const ChainStep& s : steps) {
+          if (s.stale_start) stale.insert(s.node);
         }
-        if (p.critical_chain.empty() || run_earlier > earlier) {
+        if (p.critical_chain.empty() || slack < worst_slack) {
+          worst_slack = slack;
+          p.worst_run = info->index;
           p.critical_chain.clear();
           for (const ChainStep& s : steps) p.critical_chain.push_back(s.node);
           p.critical_source = steps.front().node;
           p.failing_features = info->failing;
-        }
-        earlier = std::max(earlier, run_earlier);
-        for (const ChainStep& s : steps) {
-          if (s.stale_start) stale.insert(s.node);
+          p.fix = fix_for(plan, ev, run, worst);
         }
         std::optional<int64_t> l = later_start_needed(plan, ev, run);
         if (!l || !later) later.reset();
         else later = std::max(*later, *l);
       }
-      if (earlier_known && earlier > 0) p.land_earlier_seconds = earlier;
+      if (p.fix && !p.fix->move_start && p.fix->seconds > 0) p.land_earlier_seconds = p.fix->seconds;
       p.start_later_seconds = later;
       p.stale_jobs.assign(stale.begin(), stale.end());
       out.push_back(std::move(p));
@@ -216,6 +308,31 @@ std::vector<FailurePattern> failure_patterns(const Plan& plan, const Evaluation&
         for (const RunInfo* info : rest) (weekday_of_run(info->index) == weekday ? mine : others).push_back(info);
         finish(std::move(p), mine);
         rest = others;
+      }
+      // A block of consecutive runs, all failing: "fails every run from A to B",
+      // with the daylight-saving change that started it when there is one.
+      if (rest.size() >= 3) {
+        std::vector<size_t> positions;
+        for (const RunInfo* info : rest) {
+          positions.push_back(static_cast<size_t>(
+              std::find(model_runs.begin(), model_runs.end(), info->index) - model_runs.begin()));
+        }
+        if (positions.back() - positions.front() + 1 == positions.size()) {
+          const RunResult& first = ev.runs[rest.front()->index];
+          const RunResult& last = ev.runs[rest.back()->index];
+          FailurePattern p;
+          p.when = FailurePattern::When::span;
+          p.description = "fails every run from " + format_local(model.zone->to_local(first.at)).substr(0, 10) +
+                          " to " + format_local(model.zone->to_local(last.at)).substr(0, 10) + " (" +
+                          std::to_string(rest.size()) + " runs)";
+          std::string detail;
+          if (near_daylight_saving(plan, ev, first, *rest.front(), &detail)) {
+            p.description += ", starting after " + detail;
+          }
+          if (positions.back() + 1 == model_runs.size()) p.description += "; still failing at the end of the window";
+          finish(std::move(p), rest);
+          continue;
+        }
       }
       // Daylight-saving dates, one pattern per date.
       std::vector<const RunInfo*> plain;

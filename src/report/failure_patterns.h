@@ -39,9 +39,22 @@ std::vector<ChainStep> explain_chain(const Plan& plan, const Evaluation& ev, con
 /// that a run at at + d passes every non-optional feature; nullopt if none.
 std::optional<int64_t> later_start_needed(const Plan& plan, const Evaluation& ev, const RunResult& run);
 
+/// What would make one failing feature of one run on time: the step to
+/// change (a delivery that must land earlier, or a fixed start that must
+/// move) and by how much, in words for people.
+struct Fix {
+  int node = -1;                // the step to change
+  bool move_start = false;      // true: a cron-triggered node's start must move; false: `node` must land earlier
+  int64_t seconds = 0;          // how much earlier it must land / start (0 when only a later start helps)
+  std::string text;             // e.g. "'bed_board' lands at 07:20; it would have to land by 06:30 (50m earlier)"
+};
+
+/// The fix for `feature` of `run` (status late; nullopt for never or ok).
+std::optional<Fix> fix_for(const Plan& plan, const Evaluation& ev, const RunResult& run, const FeatureResult& feature);
+
 struct FailurePattern {
   int model = -1;
-  enum class When { every_run, weekday, daylight_saving, dates } when = When::dates;
+  enum class When { every_run, weekday, span, daylight_saving, dates } when = When::dates;
   int weekday = -1;                  // for When::weekday
   std::vector<size_t> runs;          // indices into Evaluation::runs
   std::string description;           // "fails every Monday", "fails on 2026-03-08, a daylight-saving change ..."
@@ -49,6 +62,8 @@ struct FailurePattern {
   std::vector<int> critical_chain;   // chain of the worst failing feature in the worst run
   int critical_source = -1;          // first node of that chain
   std::optional<int64_t> land_earlier_seconds;  // how much earlier the critical delivery must land
+  std::optional<Fix> fix;            // for the worst run of the pattern
+  size_t worst_run = 0;              // index into Evaluation::runs
   std::optional<int64_t> start_later_seconds;   // or how much later the run must start (max over the runs)
   std::vector<int> stale_jobs;       // cron-triggered nodes on the chain that started before their data landed
 };
