@@ -4,7 +4,43 @@
 
 namespace readyby {
 
-void write_check_json(std::ostream& out, const Plan& plan, const Evaluation& ev) {
+namespace {
+
+// Buffers output in large blocks: a plan-wide check writes millions of small
+// pieces, and going through the stream for each costs more than computing them.
+class BlockWriter {
+ public:
+  explicit BlockWriter(std::ostream& out) : out_(out) { buffer_.reserve(kBlock + 4096); }
+  ~BlockWriter() { flush(); }
+  BlockWriter& operator<<(std::string_view s) {
+    buffer_.append(s);
+    if (buffer_.size() >= kBlock) flush();
+    return *this;
+  }
+  BlockWriter& operator<<(const std::string& s) { return *this << std::string_view(s); }
+  BlockWriter& operator<<(const char* s) { return *this << std::string_view(s); }
+  BlockWriter& operator<<(char c) { return *this << std::string_view(&c, 1); }
+  BlockWriter& operator<<(int64_t v) { return *this << std::string_view(std::to_string(v)); }
+  BlockWriter& operator<<(int v) { return *this << static_cast<int64_t>(v); }
+  void flush() {
+    out_.write(buffer_.data(), static_cast<std::streamsize>(buffer_.size()));
+    buffer_.clear();
+  }
+
+ private:
+  static constexpr size_t kBlock = 1 << 20;
+  std::ostream& out_;
+  std::string buffer_;
+};
+
+}  // namespace
+
+void write_check_json(std::ostream& stream, const Plan& plan, const Evaluation& ev) {
+  BlockWriter out(stream);
+  // Node ids are quoted once, not once per mention.
+  std::vector<std::string> quoted;
+  quoted.reserve(plan.nodes.size());
+  for (const Node& n : plan.nodes) quoted.push_back(json_quote(n.id));
   out << "{\"plan\": " << json_quote(plan.id) << ", \"timezone\": " << json_quote(plan.zone->name())
       << ", \"from\": " << json_quote(format_date(ev.from)) << ", \"days\": " << ev.days
       << ",\n \"ok\": " << (ev.ok() ? "true" : "false") << ",\n \"runs\": [";
@@ -20,7 +56,7 @@ void write_check_json(std::ostream& out, const Plan& plan, const Evaluation& ev)
     for (const FeatureResult& f : run.features) {
       out << (first_feature ? "\n    " : ",\n    ");
       first_feature = false;
-      out << "{\"feature\": " << json_quote(plan.nodes[static_cast<size_t>(f.feature)].id)
+      out << "{\"feature\": " << quoted[static_cast<size_t>(f.feature)]
           << ", \"optional\": " << (f.optional ? "true" : "false") << ", \"needs_data_through\": \""
           << format_rfc3339(f.needs_data_through, model.zone) << "\", \"ready_at\": ";
       if (f.ready_at) {
@@ -31,7 +67,7 @@ void write_check_json(std::ostream& out, const Plan& plan, const Evaluation& ev)
       out << ", \"status\": \"" << to_string(f.status) << "\", \"chain\": [";
       bool first_node = true;
       for (int n : ev.chain(f)) {
-        out << (first_node ? "" : ", ") << json_quote(plan.nodes[static_cast<size_t>(n)].id);
+        out << (first_node ? "" : ", ") << quoted[static_cast<size_t>(n)];
         first_node = false;
       }
       out << "]}";

@@ -1,0 +1,70 @@
+#include <catch2/catch.hpp>
+
+#include <array>
+#include <cstdio>
+#include <cstdlib>
+#include <fstream>
+#include <string>
+#include <sys/wait.h>
+
+// The command line as a user meets it: exit statuses and streams.
+
+namespace {
+
+struct Outcome {
+  int status;
+  std::string out;
+};
+
+Outcome run(const std::string& args) {
+  std::string cmd = std::string("NO_COLOR=1 ") + READYBY_BINARY + " " + args + " 2>&1";
+  Outcome o{-1, ""};
+  FILE* pipe = popen(cmd.c_str(), "r");
+  if (!pipe) return o;
+  std::array<char, 4096> buf;
+  size_t n;
+  while ((n = fread(buf.data(), 1, buf.size(), pipe)) > 0) o.out.append(buf.data(), n);
+  int raw = pclose(pipe);
+  o.status = WIFEXITED(raw) ? WEXITSTATUS(raw) : -1;
+  return o;
+}
+
+const std::string kDemo = std::string(READYBY_SOURCE_DIR) + "/pipelines/larkspur.plan.yaml";
+
+}  // namespace
+
+TEST_CASE("exit statuses: 0 valid / all ok, 1 some run fails, 2 bad input or usage") {
+  CHECK(run("validate " + kDemo).status == 0);
+  CHECK(run("check " + kDemo + " --from 2026-02-22 --days 28").status == 1);
+  CHECK(run("check " + kDemo + " --from 2026-04-06 --days 5 --format json").status == 1);
+  Outcome bad_option = run("check " + kDemo + " --days zero");
+  CHECK(bad_option.status == 2);
+  CHECK(bad_option.out.find("--days needs a whole number") != std::string::npos);
+  CHECK(run("check /nonexistent/plan.yaml").status == 2);
+  Outcome typo = run("chek");
+  CHECK(typo.status == 2);
+  CHECK(typo.out.find("unknown command 'chek' (did you mean 'check'?)") != std::string::npos);
+  CHECK(run("help").status == 0);
+  CHECK(run("check --help").status == 0);
+}
+
+TEST_CASE("validate prints every error with the source line and a caret, exit 2") {
+  std::string path = std::string(std::getenv("TMPDIR") ? std::getenv("TMPDIR") : "/tmp") + "/readyby_cli_bad.yaml";
+  std::ofstream(path) << "plan: x\ntimezone: Etc/UTC\nmodels:\n  m:\n    features: [nope]\n    runs:\n      - at: \"0 6 * * *\"\n";
+  Outcome o = run("validate " + path);
+  CHECK(o.status == 2);
+  CHECK(o.out.find(path + ":5:16: error: unknown feature 'nope'\n      features: [nope]\n                 ^\n") !=
+        std::string::npos);
+  std::remove(path.c_str());
+}
+
+TEST_CASE("check --run explains one run step by step") {
+  Outcome o = run("check " + kDemo + " --run discharge_delay@2026-03-08T06:30");
+  CHECK(o.status == 1);
+  CHECK(o.out.find("run of model discharge_delay at 2026-03-08 06:30 -05:00: fail") != std::string::npos);
+  CHECK(o.out.find("census_snapshot             job      2026-03-08 04:45 -05:00") != std::string::npos);
+  Outcome json = run("check " + kDemo + " --run discharge_delay@2026-03-08T06:30 --format json");
+  CHECK(json.out.find(R"({"node": "census_snapshot", "kind": "job", "ready_at": "2026-03-08T04:45:00-05:00")") !=
+        std::string::npos);
+  CHECK(run("check " + kDemo + " --run nobody@2026-03-08T06:30").status == 2);
+}
