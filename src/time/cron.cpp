@@ -263,18 +263,26 @@ std::optional<Instant> next_occurrence(const Cron& c, const Zone& zone, const Ca
   LocalDays day = date::floor<date::days>(zone.to_local(from)) - date::days(1);
   LocalDays last_day = date::floor<date::days>(zone.to_local(limit)) + date::days(1);
   std::optional<Instant> found;
-  while (day <= last_day) {
+  const bool both = c.days_star || c.weekdays_star;
+  while (day <= last_day && !found) {
     date::year_month_day ymd{day};
     if (!(c.months & (1u << static_cast<unsigned>(ymd.month())))) {
       date::year_month_day next = date::year_month_day{ymd.year() / ymd.month() / 1} + date::months(1);
       day = LocalDays(date::sys_days(next).time_since_epoch());
       continue;
     }
-    if (c.matches_day(day) && !calendar.skips(day)) {
+    // Walk the rest of this month with day-of-month and weekday kept
+    // incrementally (no calendar conversion per day).
+    unsigned last_dom = static_cast<unsigned>(date::year_month_day_last{ymd.year() / ymd.month() / date::last}.day());
+    int weekday = weekday_of(day);
+    for (unsigned dom = static_cast<unsigned>(ymd.day()); dom <= last_dom && day <= last_day;
+         ++dom, day += date::days(1), weekday = weekday == 6 ? 0 : weekday + 1) {
+      bool dom_ok = (c.days >> dom) & 1u;
+      bool dow_ok = (c.weekdays >> weekday) & 1u;
+      if (!(both ? (dom_ok && dow_ok) : (dom_ok || dow_ok)) || calendar.skips(day)) continue;
       found = first_on_day(c, zone, day, from);
       if (found) break;
     }
-    day += date::days(1);
   }
   if (!found) return std::nullopt;
   // A time in a daylight-saving gap is read with the earlier offset and can

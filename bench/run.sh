@@ -1,0 +1,33 @@
+#!/usr/bin/env bash
+# readyby benchmarks: `cmake --build build --target bench` runs this as
+#   bash bench/run.sh BUILD_DIR      (env READYBY = the readyby binary)
+# Each section prints its figures; the README quotes them. Generated inputs go
+# to a temporary folder and are removed afterwards.
+set -uo pipefail
+BUILD_DIR="${1:-build}"
+READYBY="${READYBY:-$BUILD_DIR/readyby}"
+ROOT="$(cd "$(dirname "$0")/.." && pwd)"
+WORK="$(mktemp -d)"
+trap 'rm -rf "$WORK"' EXIT
+command -v /usr/bin/time >/dev/null || { apt-get install -y -qq time >/dev/null 2>&1 || true; }
+
+# Prints "<wall seconds> s, <peak MiB> MiB" for a command (stdout to /dev/null).
+measure() {
+  /usr/bin/time -f "%e %M" -o "$WORK/time.txt" "$@" >/dev/null 2>"$WORK/stderr.txt"
+  read -r secs kib < <(tail -n 1 "$WORK/time.txt")
+  echo "${secs} s, $((kib / 1024)) MiB peak"
+}
+
+echo "== plan: validate and check on a generated 20,000-node plan =="
+python3 "$ROOT/bench/gen_plan.py" --seed 1 > "$WORK/plan.yaml"
+echo "validate (2,000 sources + 8,000 jobs + 10,000 features, 200 models): $(measure "$READYBY" validate "$WORK/plan.yaml")"
+echo "check --days 30 --format json (output to a file): $(measure sh -c "'$READYBY' check '$WORK/plan.yaml' --from 2026-03-01 --days 30 --format json > '$WORK/check.json'")"
+echo "  runs: $(grep -c '"model": ' "$WORK/check.json"), output $(( $(stat -c %s "$WORK/check.json") / 1048576 )) MiB"
+rm -f "$WORK/check.json"
+echo "check --days 30 --format text: $(measure "$READYBY" check "$WORK/plan.yaml" --from 2026-03-01 --days 30)"
+if [ "${READYBY_BENCH_LONG:-0}" = 1 ]; then
+  echo "check --days 365 --format json: $(measure sh -c "'$READYBY' check '$WORK/plan.yaml' --from 2026-03-01 --days 365 --format json > /dev/null")"
+fi
+
+echo "== time layer =="
+"$BUILD_DIR/next_occurrence_bench" 3000000
