@@ -63,3 +63,21 @@ catalog_bench() {
 }
 echo "== catalogue: generated 5,000 entries =="
 catalog_bench || echo "catalogue benchmark failed"
+
+# ---- history: record 1,000,000 landing rows; nightly over 365 days x 500 sources ----
+# Guarded: a failure here is reported and does not stop the other sections.
+history_bench() {
+  local h="$WORK/history"
+  mkdir -p "$h" || return 1
+  python3 "$ROOT/bench/gen_history.py" "$h/plan.yaml" "$h/million.csv" --sources 500 --days 2000 --end 2026-03-01 || return 1
+  echo "record 1,000,000 rows (one CSV file, one transaction, fresh database; target < 15 s, < 500 MiB): $(measure "$READYBY" record "$h/million.csv" --plan "$h/plan.yaml" --db "$h/million.db")"
+  echo "record the same file again (idempotent, nothing added): $(measure "$READYBY" record "$h/million.csv" --plan "$h/plan.yaml" --db "$h/million.db")"
+  echo "  database: $(( $(stat -c %s "$h/million.db") / 1048576 )) MiB"
+  rm -f "$h/million.csv" "$h"/million.db*
+  python3 "$ROOT/bench/gen_history.py" "$h/plan.yaml" "$h/year.csv" --sources 500 --days 365 --end 2026-03-01 || return 1
+  "$READYBY" record "$h/year.csv" --plan "$h/plan.yaml" --db "$h/year.db" >/dev/null || return 1
+  echo "nightly, 365 days x 500 sources recorded, --window 28 (target < 2 s, < 500 MiB): $(measure "$READYBY" nightly "$h/plan.yaml" --db "$h/year.db" --date 2026-03-01)"
+  echo "nightly --window 365 --format json: $(measure "$READYBY" nightly "$h/plan.yaml" --db "$h/year.db" --date 2026-03-01 --window 365 --format json)"
+}
+echo "== history: record and nightly =="
+history_bench || echo "history benchmark failed"

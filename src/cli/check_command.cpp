@@ -1,10 +1,9 @@
-#include <unistd.h>
-
 #include <chrono>
 #include <cstdlib>
 #include <iostream>
 
 #include "cli/commands.h"
+#include "cli/options.h"
 #include "engine/check.h"
 #include "plan/plan_loader.h"
 #include "report/check_json.h"
@@ -27,27 +26,21 @@ struct CheckOptions {
 std::string parse_check_args(const std::vector<std::string>& args, CheckOptions* o) {
   for (size_t i = 0; i < args.size(); ++i) {
     const std::string& a = args[i];
-    auto value = [&](const char* name) -> std::optional<std::string> {
-      std::string prefix = std::string(name) + "=";
-      if (a.starts_with(prefix)) return a.substr(prefix.size());
-      if (a == name && i + 1 < args.size()) return args[++i];
-      return std::nullopt;
-    };
-    if (a.starts_with("--from")) {
-      auto v = value("--from");
+    if (is_option(a, "--from")) {
+      auto v = option_value(args, &i, "--from");
       if (!v || !(o->from = parse_date(*v))) return "--from needs a date YYYY-MM-DD";
-    } else if (a.starts_with("--days")) {
-      auto v = value("--days");
+    } else if (is_option(a, "--days")) {
+      auto v = option_value(args, &i, "--days");
       char* end = nullptr;
       long n = v ? std::strtol(v->c_str(), &end, 10) : 0;
       if (!v || v->empty() || *end || n < 1 || n > 3660) return "--days needs a whole number from 1 to 3660";
       o->days = static_cast<int>(n);
-    } else if (a.starts_with("--format")) {
-      auto v = value("--format");
+    } else if (is_option(a, "--format")) {
+      auto v = option_value(args, &i, "--format");
       if (!v || (*v != "text" && *v != "json")) return "--format must be text or json";
       o->format = *v;
-    } else if (a.starts_with("--run")) {
-      auto v = value("--run");
+    } else if (is_option(a, "--run")) {
+      auto v = option_value(args, &i, "--run");
       if (!v || v->find('@') == std::string::npos) return "--run needs MODEL@YYYY-MM-DDTHH:MM";
       o->run = *v;
     } else if (a.starts_with("-")) {
@@ -63,16 +56,8 @@ std::string parse_check_args(const std::vector<std::string>& args, CheckOptions*
   return "";
 }
 
-bool use_colour() {
-  const char* no_colour = std::getenv("NO_COLOR");
-  if (no_colour && *no_colour) return false;
-  const char* term = std::getenv("TERM");
-  if (term && std::string(term) == "dumb") return false;
-  return isatty(STDOUT_FILENO);
-}
-
 int explain_run(const Plan& plan, const CheckOptions& o) {
-  const Command& self = command_table()[1];
+  const Command& self = command_named("check");
   size_t at = o.run.find('@');
   std::string model_id = o.run.substr(0, at);
   int model = plan.find_model(model_id);
@@ -93,7 +78,7 @@ int explain_run(const Plan& plan, const CheckOptions& o) {
 }  // namespace
 
 int cmd_check(const std::vector<std::string>& args) {
-  const Command& self = command_table()[1];
+  const Command& self = command_named("check");
   if (wants_help(args, self.usage)) return kExitOk;
   CheckOptions o;
   std::string problem = parse_check_args(args, &o);

@@ -26,12 +26,51 @@ const char kCheckUsage[] =
     "  zone, --days 28, --format text. --run explains one run step by step.\n"
     "  Exit 0 when every run is ok or degraded, 1 when some run fails, 2 on bad input.\n";
 
+const char kRecordUsage[] =
+    "usage: readyby record LOG... --plan PLAN [--db FILE] [--map FIELD=COLUMN,...]\n"
+    "  Records landing logs (CSV with a header row, or JSON Lines) into the history\n"
+    "  database (default readyby.db). Columns: node, landed_at, data_through, and\n"
+    "  optionally scheduled_at, rows, status (ok|failed). --map renames columns,\n"
+    "  e.g. --map landed_at=load_end_ts,data_through=watermark. Every file is checked\n"
+    "  first; any bad row rejects the whole command with PATH:LINE errors and nothing\n"
+    "  is written. Each file is one transaction; recording a file again adds nothing.\n"
+    "  Exit 0 when recorded, 2 on bad input.\n";
+const char kNightlyUsage[] =
+    "usage: readyby nightly PLAN [--db FILE] [--date YYYY-MM-DD] [--window N]\n"
+    "                       [--format text|json|junit|metrics]\n"
+    "  Evaluates the runs of one local date (default today in the plan's zone) with\n"
+    "  the recorded landings: a node with recorded rows uses only them, others keep\n"
+    "  their declared schedule. Reports landing drift and on-time rates over the last\n"
+    "  N days (default 28). Default --db readyby.db, --format text.\n"
+    "  Exit 0 when every run of the day is ok or degraded, 1 when some run fails,\n"
+    "  2 on bad input.\n";
+const char kCatalogUsage[] =
+    "usage: readyby catalog validate [--registry DIR]...\n"
+    "       readyby catalog search TEXT [--setting S] [--outcome C] [--limit N] [--format text|json] [--registry DIR]...\n"
+    "       readyby catalog show ID [--registry DIR]...\n"
+    "  validate checks every vocabulary and entry file and reports every error as PATH:LINE:COL.\n"
+    "  search ranks entries by relevance to TEXT (BM25); --setting takes a setting id, --outcome a\n"
+    "  concept id or text (narrower concepts included). show prints one entry.\n"
+    "  --registry layers a local registry folder over the shipped one (repeatable).\n"
+    "  Exit 0 on success, 2 on invalid input.\n";
+const char kReuseUsage[] =
+    "usage: readyby reuse PROPOSAL [--registry DIR]... [--format text|json]\n"
+    "  Has an established score, or an in-house model, already covered this proposal? Matches the\n"
+    "  proposal's outcome, settings, population, time point and horizon against every catalogue\n"
+    "  entry and recommends reuse, adapt or build, criterion by criterion.\n"
+    "  --registry layers a local registry folder over the shipped one (repeatable).\n"
+    "  Exit 0 on success, 2 on invalid input.\n";
+
 }  // namespace
 
 const std::vector<Command>& command_table() {
   static const std::vector<Command> kTable = {
       {"validate", "check a data plan file and report every error", kValidateUsage, cmd_validate},
       {"check", "will every feature be fresh by every model run?", kCheckUsage, cmd_check},
+      {"record", "record landing logs into the history database", kRecordUsage, cmd_record},
+      {"nightly", "check one day's runs against what actually landed", kNightlyUsage, cmd_nightly},
+      {"catalog", "validate, search and show the catalogue of published scores", kCatalogUsage, cmd_catalog},
+      {"reuse", "has an established score already covered this proposal?", kReuseUsage, cmd_reuse},
       {"help", "list the commands, or show one command's usage", kHelpUsage, cmd_help},
   };
   return kTable;

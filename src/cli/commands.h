@@ -28,6 +28,10 @@ int run_cli(const std::vector<std::string>& args);
 // Handlers (one per command), defined next to their concern.
 int cmd_validate(const std::vector<std::string>& args);
 int cmd_check(const std::vector<std::string>& args);
+int cmd_record(const std::vector<std::string>& args);
+int cmd_nightly(const std::vector<std::string>& args);
+int cmd_catalog(const std::vector<std::string>& args);
+int cmd_reuse(const std::vector<std::string>& args);
 
 /// True when `args` asks for help (-h / --help); prints `usage` then.
 bool wants_help(const std::vector<std::string>& args, const char* usage);

@@ -2,12 +2,13 @@
 #include <iostream>
 
 #include "cli/commands.h"
+#include "cli/options.h"
 #include "plan/plan_loader.h"
 
 namespace readyby {
 
 int cmd_validate(const std::vector<std::string>& args) {
-  const Command& self = command_table()[0];
+  const Command& self = command_named("validate");
   if (wants_help(args, self.usage)) return kExitOk;
   if (args.size() != 1 || args[0].starts_with("-")) {
     return usage_error(args.empty() ? "validate needs a PLAN file" : "validate takes exactly one PLAN file", self.usage);

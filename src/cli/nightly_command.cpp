@@ -1,0 +1,113 @@
+// `readyby nightly PLAN [--db FILE] [--date D] [--window N] [--format F]`:
+// the day's runs against what actually landed, with drift and on-time rates.
+
+#include <chrono>
+#include <cstdlib>
+#include <iostream>
+
+#include "cli/commands.h"
+#include "history/nightly.h"
+#include "history/store.h"
+#include "plan/plan_loader.h"
+#include "report/nightly_report.h"
+
+namespace readyby {
+
+namespace {
+
+struct NightlyOptions {
+  std::string plan_path;
+  std::string db_path = "readyby.db";
+  std::optional<LocalDays> date;
+  int window = 28;
+  std::string format = "text";
+};
+
+const Command& nightly_command() {
+  for (const Command& c : command_table()) {
+    if (std::string_view(c.name) == "nightly") return c;
+  }
+  return command_table().front();
+}
+
+std::string parse_nightly_args(const std::vector<std::string>& args, NightlyOptions* o) {
+  for (size_t i = 0; i < args.size(); ++i) {
+    const std::string& a = args[i];
+    auto value = [&](const char* name) -> std::optional<std::string> {
+      std::string prefix = std::string(name) + "=";
+      if (a.starts_with(prefix)) return a.substr(prefix.size());
+      if (a == name && i + 1 < args.size()) return args[++i];
+      return std::nullopt;
+    };
+    if (a == "--db" || a.starts_with("--db=")) {
+      auto v = value("--db");
+      if (!v || v->empty()) return "--db needs a FILE";
+      o->db_path = *v;
+    } else if (a == "--date" || a.starts_with("--date=")) {
+      auto v = value("--date");
+      if (!v || !(o->date = parse_date(*v))) return "--date needs a date YYYY-MM-DD";
+    } else if (a == "--window" || a.starts_with("--window=")) {
+      auto v = value("--window");
+      char* end = nullptr;
+      long n = v ? std::strtol(v->c_str(), &end, 10) : 0;
+      if (!v || v->empty() || *end || n < 1 || n > 366) return "--window needs a whole number of days from 1 to 366";
+      o->window = static_cast<int>(n);
+    } else if (a == "--format" || a.starts_with("--format=")) {
+      auto v = value("--format");
+      if (!v || (*v != "text" && *v != "json" && *v != "junit" && *v != "metrics")) {
+        return "--format must be text, json, junit or metrics";
+      }
+      o->format = *v;
+    } else if (a.starts_with("-")) {
+      return "unknown option '" + a + "'";
+    } else if (o->plan_path.empty()) {
+      o->plan_path = a;
+    } else {
+      return "nightly takes one PLAN file";
+    }
+  }
+  if (o->plan_path.empty()) return "nightly needs a PLAN file";
+  return "";
+}
+
+}  // namespace
+
+int cmd_nightly(const std::vector<std::string>& args) {
+  const Command& self = nightly_command();
+  if (wants_help(args, self.usage)) return kExitOk;
+  NightlyOptions o;
+  std::string problem = parse_nightly_args(args, &o);
+  if (!problem.empty()) return usage_error(problem, self.usage);
+  PlanLoadResult loaded = load_plan_file(o.plan_path);
+  if (!loaded.plan) {
+    std::cerr << loaded.rendered;
+    return kExitBadInput;
+  }
+  const Plan& plan = *loaded.plan;
+  if (!o.date) {
+    Instant now = std::chrono::time_point_cast<Seconds>(std::chrono::system_clock::now());
+    o.date = date::floor<date::days>(plan.zone->to_local(now));
+  }
+  std::string error;
+  std::unique_ptr<HistoryStore> store = HistoryStore::open(o.db_path, HistoryStore::Mode::existing, &error);
+  if (!store) {
+    std::cerr << "readyby: " << error << "\n";
+    return kExitBadInput;
+  }
+  std::vector<std::optional<Instant>> first;
+  std::optional<History> history = store->read(plan, history_needed_since(plan, *o.date, o.window), &error, &first);
+  if (!history) {
+    std::cerr << "readyby: " << o.db_path << ": " << error << "\n";
+    return kExitBadInput;
+  }
+  store.reset();
+  NightlyReport report = evaluate_nightly(plan, *history, first, *o.date, o.window);
+  if (o.format == "json") write_nightly_json(std::cout, plan, report);
+  else if (o.format == "junit") write_nightly_junit(std::cout, plan, report);
+  else if (o.format == "metrics") write_nightly_metrics(std::cout, plan, report);
+  else write_nightly_text(std::cout, plan, report);
+  std::cout.flush();
+  return report.ok() ? kExitOk : kExitFindings;
+}
+
+}  // namespace readyby

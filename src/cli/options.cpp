@@ -1,0 +1,38 @@
+#include "cli/options.h"
+
+#include <unistd.h>
+
+#include <cstdlib>
+
+#include "cli/commands.h"
+
+namespace readyby {
+
+bool is_option(const std::string& arg, std::string_view name) {
+  return arg == name || (arg.size() > name.size() && arg.starts_with(name) && arg[name.size()] == '=');
+}
+
+std::optional<std::string> option_value(const std::vector<std::string>& args, size_t* i, std::string_view name) {
+  const std::string& a = args[*i];
+  if (!is_option(a, name)) return std::nullopt;
+  if (a.size() > name.size()) return a.substr(name.size() + 1);
+  if (*i + 1 < args.size()) return args[++*i];
+  return std::nullopt;
+}
+
+const Command& command_named(std::string_view name) {
+  for (const Command& c : command_table()) {
+    if (name == c.name) return c;
+  }
+  return command_table().front();
+}
+
+bool use_colour() {
+  const char* no_colour = std::getenv("NO_COLOR");
+  if (no_colour && *no_colour) return false;
+  const char* term = std::getenv("TERM");
+  if (term && std::string_view(term) == "dumb") return false;
+  return isatty(STDOUT_FILENO) != 0;
+}
+
+}  // namespace readyby

@@ -1,0 +1,28 @@
+#pragma once
+// Small helpers shared by the command handlers: option values, the command's
+// own table entry, and whether to colour output.
+
+#include <optional>
+#include <string>
+#include <string_view>
+#include <vector>
+
+namespace readyby {
+
+struct Command;
+
+/// The value of option `name` at args[*i], written `--name=value` or
+/// `--name value` (then *i advances past the value); nullopt when args[*i] is
+/// not that option or its value is missing.
+std::optional<std::string> option_value(const std::vector<std::string>& args, size_t* i, std::string_view name);
+
+/// Whether args[i] is option `name` in either form.
+bool is_option(const std::string& arg, std::string_view name);
+
+/// The command table entry named `name` (which must exist).
+const Command& command_named(std::string_view name);
+
+/// Colour only on a terminal, never when NO_COLOR is set or TERM is dumb.
+bool use_colour();
+
+}  // namespace readyby

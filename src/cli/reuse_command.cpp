@@ -1,0 +1,83 @@
+// readyby reuse PROPOSAL
+#include <cstdio>
+#include <iostream>
+
+#include "catalog/outcome_resolver.h"
+#include "catalog/proposal.h"
+#include "catalog/reuse.h"
+#include "catalog/reuse_writer.h"
+#include "cli/catalog_session.h"
+#include "cli/commands.h"
+
+namespace readyby {
+
+namespace {
+
+const Command& self() {
+  for (const Command& c : command_table()) {
+    if (std::string(c.name) == "reuse") return c;
+  }
+  return command_table().front();
+}
+
+}  // namespace
+
+int cmd_reuse(const std::vector<std::string>& raw) {
+  if (wants_help(raw, self().usage)) return kExitOk;
+  std::vector<std::string> args = raw;
+  std::vector<std::string> registries;
+  std::string problem = take_registries(&args, &registries);
+  std::string format = "text", proposal_path;
+  for (size_t i = 0; problem.empty() && i < args.size(); ++i) {
+    const std::string& a = args[i];
+    if (a == "--format" || a.starts_with("--format=")) {
+      std::string v = a == "--format" ? (i + 1 < args.size() ? args[++i] : "") : a.substr(9);
+      if (v != "text" && v != "json") problem = "--format must be text or json";
+      format = v;
+    } else if (a.starts_with("-")) {
+      problem = "unknown option '" + a + "'";
+    } else if (proposal_path.empty()) {
+      proposal_path = a;
+    } else {
+      problem = "reuse takes one PROPOSAL file";
+    }
+  }
+  if (problem.empty() && proposal_path.empty()) problem = "reuse needs a PROPOSAL file";
+  if (!problem.empty()) return usage_error(problem, self().usage);
+
+  CatalogSession session;
+  if (int rc = open_catalog(registries, true, &session); rc != kExitOk) return rc;
+  Diagnostics diags;
+  std::optional<Proposal> proposal = load_proposal_file(proposal_path, session.vocabulary, &diags);
+  if (!proposal) {
+    std::cerr << diags.render();
+    std::cerr << diags.sorted().size() << (diags.sorted().size() == 1 ? " error" : " errors") << " in "
+              << proposal_path << "\n";
+    return kExitBadInput;
+  }
+  std::string error;
+  OutcomeResolution resolution = OutcomeResolver(session.vocabulary).resolve(proposal->outcome);
+  // Only entries whose outcome relates to the proposal's can be candidates:
+  // load just those from the index, and count the whole catalogue as searched.
+  std::vector<std::string> related;
+  for (const Term& term : session.vocabulary.outcomes) {
+    for (const std::string& c : resolution.concepts) {
+      if (session.vocabulary.relate(term.id, c) != ConceptRelation::unrelated) {
+        related.push_back(term.id);
+        break;
+      }
+    }
+  }
+  std::vector<Entry> entries = session.index->entries_with_outcomes(related, &error);
+  if (!error.empty()) {
+    std::cerr << "readyby: cannot read the catalogue index: " << error << "\n";
+    return kExitBadInput;
+  }
+  ReuseReport report = match_proposal(*proposal, resolution, session.vocabulary, entries);
+  report.searched = session.index->size();
+  std::string out = format == "json" ? reuse_json(*proposal, report) : reuse_text(*proposal, report, session.vocabulary);
+  std::fputs(out.c_str(), stdout);
+  return kExitOk;
+}
+
+}  // namespace readyby

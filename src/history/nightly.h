@@ -1,0 +1,92 @@
+#pragma once
+// The nightly check (DESIGN §7): one local day's runs evaluated against what
+// actually landed, with drift and on-time rates from the history. Pure
+// computation over a plan and recorded deliveries; the store reads them and
+// the report writers render the result.
+//
+// Semantics.
+// - A node with any recorded row (ok or failed) is *monitored*: its E(w) is
+//   the earliest landed_at among its `ok` rows with data_through >= w, and
+//   "not landed" when there is none; its chain is the node alone. Failed rows
+//   only make a node monitored. Every other node keeps its declared timing;
+//   sources among them are listed as *unmonitored*.
+// - The window is the `window` local dates ending with `date` (plan zone),
+//   shortened so that it starts no earlier than the day after every monitored
+//   node's first recorded data_through (days before the history began would
+//   read as "not landed"). `date` itself is always evaluated.
+// - Runs of the whole window are evaluated with one freshness engine; the
+//   runs of `date` are the report's runs (status ok / degraded / fail; a
+//   feature never ready is "not-landed").
+// - On-time rate per model and local run time (HH:MM in the model's zone):
+//   runs with status ok over runs evaluated in the window, with a Wilson 95%
+//   interval. Degraded runs are not on time (they missed an input).
+// - Weakest link: the node that most often starts the chain of a failing
+//   non-optional feature, counted once per failing run over the window.
+// - Drift: for every monitored source (drift.h), over the window, compared
+//   with the slack of the latest run whose ok feature's chain starts there.
+
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "engine/check.h"
+#include "history/drift.h"
+#include "history/stats.h"
+#include "history/store.h"
+#include "plan/plan.h"
+
+namespace readyby {
+
+struct OnTimeRate {
+  int model = -1;
+  std::string at_local;      // "07:00": local run time in the model's zone
+  int days = 0;              // runs evaluated
+  int on_time = 0;           // runs with status ok
+  double rate = 0;           // on_time / days
+  ProportionInterval interval;  // Wilson 95%
+};
+
+struct WeakestLink {
+  int node = -1;             // usually a source
+  int failing_runs = 0;      // failing runs whose failure chain starts at `node`
+  int total_failing_runs = 0;
+};
+
+/// One step of a chain with its actual (or, for unmonitored nodes, declared) landing.
+struct ChainLanding {
+  int node = -1;
+  std::optional<Instant> ready_at;   // nullopt: not landed
+  bool monitored = false;
+};
+
+struct NightlyReport {
+  LocalDays date;
+  int window = 0;                    // as asked
+  LocalDays window_from;             // first local date evaluated (<= date)
+  Evaluation evaluation;             // every run in [window_from, date]
+  std::vector<size_t> today;         // indices into evaluation.runs of the runs of `date`
+  std::vector<int> unmonitored;      // sources with no recorded row, plan order
+  std::vector<bool> monitored;       // by node index
+  std::vector<SourceDrift> drift;    // monitored sources, plan order
+  std::vector<OnTimeRate> on_time;   // by model (plan order), then local time
+  std::optional<WeakestLink> weakest_link;  // nullopt: no failing run in the window
+
+  /// False iff some run of `date` fails.
+  bool ok() const;
+  /// The chain of a feature result with each step's landing time.
+  std::vector<ChainLanding> chain_landings(const FeatureResult& f) const;
+};
+
+/// The earliest data_through that a nightly check of `date` with `window`
+/// can need: read history from here on.
+Instant history_needed_since(const Plan& plan, LocalDays date, int window);
+
+/// Evaluates the nightly check. `history` holds every node's rows with
+/// data_through >= history_needed_since(plan, date, window) (nullopt:
+/// never recorded); `first_data_through` per node the earliest ever recorded
+/// (may be empty: the window is then not shortened). `window` >= 1.
+NightlyReport evaluate_nightly(const Plan& plan, const History& history,
+                               const std::vector<std::optional<Instant>>& first_data_through, LocalDays date,
+                               int window);
+
+}  // namespace readyby

@@ -1,0 +1,37 @@
+#pragma once
+// Report writers for `readyby nightly`: text for people, JSON for programs,
+// JUnit XML for CI dashboards and schedulers, and an OpenMetrics text
+// exposition for a monitoring system's text-file collector. Writers only
+// render a NightlyReport; every decision is made in history/nightly.h.
+//
+// In every format a feature that never became ready has status `not-landed`.
+
+#include <ostream>
+
+#include "history/nightly.h"
+#include "plan/plan.h"
+
+namespace readyby {
+
+/// "ok" | "late" | "not-landed".
+const char* nightly_status(FeatureStatus s);
+
+/// The text report: the day's runs with each failing feature's chain of
+/// landings, unmonitored sources, drift, on-time rates and the weakest link.
+void write_nightly_text(std::ostream& out, const Plan& plan, const NightlyReport& report);
+
+/// One JSON object: `plan`, `timezone`, `date`, `window`, `window_from`, `ok`,
+/// `runs` (as `check`, plus per feature `landings`: the chain with each
+/// step's landing time), `unmonitored`, `drift`, `on_time`, `weakest_link`.
+void write_nightly_json(std::ostream& out, const Plan& plan, const NightlyReport& report);
+
+/// JUnit XML: one <testsuite> for the day, one <testcase> per run; a failing
+/// run carries a <failure> whose text is the chain of each failing feature.
+void write_nightly_junit(std::ostream& out, const Plan& plan, const NightlyReport& report);
+
+/// OpenMetrics text format: slack per feature of the day's runs, on-time rate
+/// per model run time, landing offsets and trend per monitored source; ends
+/// with `# EOF`.
+void write_nightly_metrics(std::ostream& out, const Plan& plan, const NightlyReport& report);
+
+}  // namespace readyby

@@ -1,0 +1,163 @@
+#include <catch2/catch.hpp>
+
+#include "history/landing_log.h"
+#include "plan/plan_loader.h"
+#include "time/zone.h"
+
+using namespace readyby;
+
+namespace {
+
+const char kPlan[] = R"(plan: tiny
+title: Tiny plan for landing log tests (fictional)
+timezone: America/Chicago
+sources:
+  lab_batch:
+    schedule: "0 1 * * *"
+    lands_after: PT40M
+jobs:
+  labs_clean:
+    inputs: [lab_batch]
+features:
+  creat:
+    inputs: [labs_clean]
+    max_age: PT30H
+models:
+  m:
+    features: [creat]
+    runs:
+      - at: "0 7 * * *"
+)";
+
+Plan tiny_plan() {
+  PlanLoadResult r = load_plan_text(kPlan, "plan.yaml");
+  REQUIRE(r.plan);
+  return std::move(*r.plan);
+}
+
+std::vector<std::string> errors_of(const LandingLog& log) {
+  std::vector<std::string> out;
+  for (const LogError& e : log.errors) out.push_back(e.str());
+  return out;
+}
+
+}  // namespace
+
+TEST_CASE("a CSV landing log is read row by row") {
+  Plan plan = tiny_plan();
+  LandingLog log = parse_landing_log(
+      "node,landed_at,data_through,scheduled_at,rows,status,comment\n"
+      "lab_batch,2026-03-02T01:38:00-06:00,2026-03-02T00:00:00-06:00,2026-03-02T01:00:00-06:00,120,ok,\"a, b\"\n"
+      "\n"
+      "labs_clean,2026-03-02T07:55:00Z,2026-03-02T06:00:00Z,,,failed,\r\n"
+      "lab_batch,\"2026-03-03T01:39:00-06:00\",2026-03-03T00:00:00-06:00,,,,\"say \"\"hi\"\"\"\n",
+      "feeds.csv", plan, ColumnMap());
+  INFO(errors_of(log).size());
+  REQUIRE(log.errors.empty());
+  REQUIRE(log.rows.size() == 3);
+  CHECK(log.rows[0].line == 2);
+  CHECK(log.rows[0].node == plan.find_node("lab_batch"));
+  CHECK(format_rfc3339(log.rows[0].landed_at, nullptr) == "2026-03-02T07:38:00Z");
+  CHECK(format_rfc3339(*log.rows[0].scheduled_at, nullptr) == "2026-03-02T07:00:00Z");
+  CHECK(*log.rows[0].rows == 120);
+  CHECK(log.rows[1].line == 4);
+  CHECK(log.rows[1].node == plan.find_node("labs_clean"));
+  CHECK(log.rows[1].status == LandingStatus::failed);
+  CHECK_FALSE(log.rows[1].scheduled_at);
+  CHECK_FALSE(log.rows[1].rows);
+  CHECK(log.rows[2].status == LandingStatus::ok);  // empty status: ok
+}
+
+TEST_CASE("a JSON Lines landing log, with a column map") {
+  Plan plan = tiny_plan();
+  std::string error;
+  std::optional<ColumnMap> map = parse_column_map("landed_at=load_end_ts,data_through=watermark", &error);
+  REQUIRE(map);
+  LandingLog log = parse_landing_log(
+      "{\"node\": \"lab_batch\", \"load_end_ts\": \"2026-03-02T01:38:00-06:00\", "
+      "\"watermark\": \"2026-03-02T00:00:00-06:00\", \"rows\": 12, \"status\": null, \"extra\": true}\n"
+      "{\"node\":\"lab\\u005fbatch\",\"load_end_ts\":\"2026-03-03T01:38:00-06:00\",\"watermark\":\"2026-03-03T00:00:00-06:00\"}\n",
+      "export.jsonl", plan, *map);
+  REQUIRE(errors_of(log).empty());
+  REQUIRE(log.rows.size() == 2);
+  CHECK(*log.rows[0].rows == 12);
+  CHECK(log.rows[0].status == LandingStatus::ok);
+  CHECK(log.rows[1].node == plan.find_node("lab_batch"));
+  CHECK(log.rows[1].line == 2);
+}
+
+TEST_CASE("every bad row is reported as PATH:LINE and the file yields no rows") {
+  Plan plan = tiny_plan();
+  LandingLog log = parse_landing_log(
+      "node,landed_at,data_through,status,rows\n"
+      "lab_batch,2026-03-02T01:38:00-06:00,2026-03-02T00:00:00-06:00,ok,1\n"
+      "lab_bacth,2026-03-02T01:38:00-06:00,2026-03-02T00:00:00-06:00,ok,1\n"
+      "lab_batch,2026-03-02 01:38,2026-03-02T00:00:00-06:00,ok,1\n"
+      "lab_batch,2026-03-02T01:38:00-06:00,2026-03-02T02:00:00-06:00,ok,1\n"
+      "lab_batch,2026-03-02T01:38:00-06:00,2026-03-02T00:00:00-06:00,done,1\n"
+      "lab_batch,2026-03-02T01:38:00-06:00,2026-03-02T00:00:00-06:00,ok,-4\n"
+      "lab_batch,,2026-03-02T00:00:00-06:00,ok,1\n"
+      "lab_batch,2026-03-02T01:38:00-06:00\n",
+      "feeds.csv", plan, ColumnMap());
+  const std::vector<std::string> expected = {
+      "feeds.csv:3: error: unknown node 'lab_bacth' (did you mean 'lab_batch'?) in plan tiny",
+      "feeds.csv:4: error: bad landed_at '2026-03-02 01:38': expected an RFC 3339 date-time with offset, e.g. "
+      "2026-03-08T06:00:00-05:00",
+      "feeds.csv:5: error: data_through 2026-03-02T08:00:00Z is after landed_at 2026-03-02T07:38:00Z (a delivery "
+      "cannot hold data from after it landed)",
+      "feeds.csv:6: error: bad status 'done': expected ok or failed",
+      "feeds.csv:7: error: bad rows '-4': expected a whole number >= 0",
+      "feeds.csv:8: error: missing landed_at",
+      "feeds.csv:9: error: expected 5 fields as in the header, found 2",
+  };
+  CHECK(errors_of(log) == expected);
+  CHECK(log.rows.empty());
+}
+
+TEST_CASE("structural problems of a log") {
+  Plan plan = tiny_plan();
+  struct Case {
+    const char* name;
+    const char* path;
+    const char* text;
+    const char* expected;
+  };
+  const Case cases[] = {
+      {"missing column", "a.csv", "node,landed_at\n", "a.csv:1: error: the header has no column 'data_through'"},
+      {"empty csv", "a.csv", "\n\n", "a.csv: error: empty landing log: expected a header row naming node, landed_at, data_through"},
+      {"unterminated quote", "a.csv", "node,landed_at,data_through\n\"lab_batch,x,y\n",
+       "a.csv:2: error: unterminated quoted field"},
+      {"not an object", "a.jsonl", "[1, 2]\n", "a.jsonl:1: error: not a JSON object: expected a JSON object ('{') at column 1"},
+      {"nested value", "a.jsonl", "{\"node\": {\"id\": 1}}\n",
+       "a.jsonl:1: error: not a JSON object: value of 'node' must be a string, number, boolean or null at column 10"},
+      {"missing node", "a.jsonl",
+       "{\"landed_at\": \"2026-03-02T01:38:00-06:00\", \"data_through\": \"2026-03-02T00:00:00-06:00\"}\n",
+       "a.jsonl:1: error: missing node"},
+  };
+  for (const Case& c : cases) {
+    INFO(c.name);
+    LandingLog log = parse_landing_log(c.text, c.path, plan, ColumnMap());
+    REQUIRE_FALSE(log.errors.empty());
+    CHECK(log.errors[0].str() == c.expected);
+    CHECK(log.rows.empty());
+  }
+}
+
+TEST_CASE("column maps and format detection") {
+  std::string error;
+  std::optional<ColumnMap> map = parse_column_map("node=task,status=state", &error);
+  REQUIRE(map);
+  CHECK((*map)[LogField::node] == "task");
+  CHECK((*map)[LogField::landed_at] == "landed_at");
+  CHECK((*map)[LogField::status] == "state");
+  CHECK_FALSE(parse_column_map("landedat=load_end_ts", &error));
+  CHECK(error == "--map: unknown field 'landedat' (did you mean 'landed_at'?); fields are node, landed_at, "
+                 "data_through, scheduled_at, rows, status");
+  CHECK_FALSE(parse_column_map("node=a,node=b", &error));
+  CHECK(error == "--map: field 'node' is mapped twice");
+  CHECK_FALSE(parse_column_map("node", &error));
+  CHECK(detect_log_format("x.jsonl", "node,a") == LogFormat::json_lines);
+  CHECK(detect_log_format("x.csv", "{") == LogFormat::csv);
+  CHECK(detect_log_format("x.log", "  {\"node\": 1}") == LogFormat::json_lines);
+  CHECK(detect_log_format("x.log", "node,landed_at") == LogFormat::csv);
+}

@@ -1,0 +1,284 @@
+#include <catch2/catch.hpp>
+
+#include <regex>
+#include <set>
+#include <sstream>
+
+#include "history/nightly.h"
+#include "history_helpers.h"
+#include "plan/plan_loader.h"
+#include "report/nightly_report.h"
+#include "time/zone.h"
+
+using namespace readyby;
+
+namespace {
+
+// feed_a is monitored, feed_b is not; job_c's completions are recorded.
+const char kPlan[] = R"(plan: tiny
+title: Nightly semantics (fictional)
+timezone: Etc/UTC
+sources:
+  feed_a:
+    schedule: "0 1 * * *"
+    lands_after: PT30M
+  feed_b:
+    schedule: "0 2 * * *"
+    lands_after: PT1H
+jobs:
+  join_ab:
+    inputs: [feed_a, feed_b]
+    run_time: PT10M
+  job_c:
+    inputs: [feed_b]
+    run_time: PT5M
+features:
+  f_a:
+    inputs: [feed_a]
+    max_age: PT12H
+  f_ab:
+    inputs: [join_ab]
+    max_age: PT12H
+  f_c:
+    inputs: [job_c]
+    max_age: PT12H
+    optional: true
+models:
+  m:
+    features: [f_a, f_ab, f_c]
+    runs:
+      - at: "0 6 * * *"
+)";
+
+Plan load(const char* text) {
+  PlanLoadResult r = load_plan_text(text, "plan.yaml");
+  INFO(r.rendered);
+  REQUIRE(r.plan);
+  return std::move(*r.plan);
+}
+
+Instant at(const char* rfc3339) { return *parse_rfc3339(rfc3339); }
+
+StoredLanding landing(const char* landed, const char* through, LandingStatus status = LandingStatus::ok) {
+  return {at(landed), at(through), std::nullopt, status};
+}
+
+History tiny_history(const Plan& plan) {
+  History h(plan.nodes.size());
+  h[static_cast<size_t>(plan.find_node("feed_a"))] = std::vector<StoredLanding>{
+      landing("2026-03-01T01:20:00Z", "2026-03-01T00:00:00Z"),
+      // Failed: would make f_a ready at 00:50 if it counted.
+      landing("2026-03-02T00:50:00Z", "2026-03-02T01:00:00Z", LandingStatus::failed),
+      landing("2026-03-02T01:25:00Z", "2026-03-02T00:00:00Z"),
+  };
+  h[static_cast<size_t>(plan.find_node("job_c"))] = std::vector<StoredLanding>{
+      landing("2026-03-01T07:00:00Z", "2026-03-01T02:00:00Z"),
+      landing("2026-03-02T07:00:00Z", "2026-03-02T02:00:00Z"),
+  };
+  return h;
+}
+
+std::vector<std::optional<Instant>> first_through(const History& h) {
+  std::vector<std::optional<Instant>> out(h.size());
+  for (size_t n = 0; n < h.size(); ++n) {
+    if (!h[n]) continue;
+    for (const StoredLanding& l : *h[n]) out[n] = out[n] ? std::min(*out[n], l.data_through) : l.data_through;
+  }
+  return out;
+}
+
+std::string chain_of(const Plan& plan, const NightlyReport& r, const FeatureResult& f) {
+  std::string out;
+  for (const ChainLanding& s : r.chain_landings(f)) {
+    out += (out.empty() ? "" : ",") + plan.nodes[static_cast<size_t>(s.node)].id + "@" +
+           (s.ready_at ? format_rfc3339(*s.ready_at, nullptr) : "never");
+  }
+  return out;
+}
+
+}  // namespace
+
+TEST_CASE("nightly: monitored, unmonitored and job-completion nodes (hand-computed)") {
+  Plan plan = load(kPlan);
+  History history = tiny_history(plan);
+  NightlyReport r = evaluate_nightly(plan, history, first_through(history), *parse_date("2026-03-02"), 1);
+  REQUIRE(r.today.size() == 1);
+  const RunResult& run = r.evaluation.runs[r.today[0]];
+  CHECK(format_rfc3339(run.at, nullptr) == "2026-03-02T06:00:00Z");
+  REQUIRE(run.features.size() == 3);
+  // Each feature needs data through 06:00 - 12h = 03-01 18:00Z.
+  // f_a: feed_a's ok rows with data_through >= 18:00 -> only the 01:25 landing
+  // (the failed row is ignored): slack 06:00 - 01:25 = 4h35m.
+  CHECK(run.features[0].slack_seconds == 16500);
+  CHECK(run.features[0].status == FeatureStatus::ok);
+  CHECK(chain_of(plan, r, run.features[0]) == "feed_a@2026-03-02T01:25:00Z,f_a@2026-03-02T01:25:00Z");
+  // f_ab: feed_b is unmonitored: declared 02:00 + 1h = 03:00, later than
+  // feed_a's actual 01:25; join_ab + 10m = 03:10, slack 2h50m.
+  CHECK(run.features[1].slack_seconds == 10200);
+  CHECK(chain_of(plan, r, run.features[1]) ==
+        "feed_b@2026-03-02T03:00:00Z,join_ab@2026-03-02T03:10:00Z,f_ab@2026-03-02T03:10:00Z");
+  // f_c: job_c is monitored by its recorded completions only (its input's
+  // schedule is not consulted): 07:00, late by 1h; optional -> degraded.
+  CHECK(run.features[2].slack_seconds == -3600);
+  CHECK(run.features[2].status == FeatureStatus::late);
+  CHECK(chain_of(plan, r, run.features[2]) == "job_c@2026-03-02T07:00:00Z,f_c@2026-03-02T07:00:00Z");
+  CHECK(run.status == RunStatus::degraded);
+  CHECK(r.ok());
+  REQUIRE(r.unmonitored.size() == 1);
+  CHECK(plan.nodes[static_cast<size_t>(r.unmonitored[0])].id == "feed_b");
+}
+
+TEST_CASE("nightly: a monitored node with no qualifying delivery is not landed") {
+  Plan plan = load(kPlan);
+  History history = tiny_history(plan);
+  NightlyReport r = evaluate_nightly(plan, history, first_through(history), *parse_date("2026-03-03"), 2);
+  // The window starts the day after the latest first data_through (job_c:
+  // 03-01), so both 03-02 and 03-03 are evaluated.
+  CHECK(format_date(r.window_from) == "2026-03-02");
+  REQUIRE(r.today.size() == 1);
+  const RunResult& run = r.evaluation.runs[r.today[0]];
+  CHECK(run.features[0].status == FeatureStatus::never);
+  CHECK_FALSE(run.features[0].ready_at);
+  CHECK(std::string(nightly_status(run.features[0].status)) == "not-landed");
+  CHECK(chain_of(plan, r, run.features[0]) == "feed_a@never,f_a@never");
+  CHECK(run.status == RunStatus::fail);
+  CHECK_FALSE(r.ok());
+  // On time: 0 of 2 (one degraded, one failed); Wilson 95% for 0/2 is [0, 0.6576].
+  REQUIRE(r.on_time.size() == 1);
+  CHECK(r.on_time[0].at_local == "06:00");
+  CHECK(r.on_time[0].days == 2);
+  CHECK(r.on_time[0].on_time == 0);
+  CHECK(r.on_time[0].interval.high == Approx(0.6576).margin(0.0001));
+  REQUIRE(r.weakest_link);
+  CHECK(plan.nodes[static_cast<size_t>(r.weakest_link->node)].id == "feed_a");
+  CHECK(r.weakest_link->failing_runs == 1);
+  CHECK(r.weakest_link->total_failing_runs == 1);
+}
+
+TEST_CASE("nightly: a node whose only rows failed is monitored and not landed") {
+  Plan plan = load(kPlan);
+  History history(plan.nodes.size());
+  history[static_cast<size_t>(plan.find_node("feed_b"))] =
+      std::vector<StoredLanding>{landing("2026-03-02T03:00:00Z", "2026-03-02T02:00:00Z", LandingStatus::failed)};
+  NightlyReport r = evaluate_nightly(plan, history, {}, *parse_date("2026-03-02"), 1);
+  const RunResult& run = r.evaluation.runs[r.today[0]];
+  CHECK(run.features[0].status == FeatureStatus::ok);     // feed_a declared: 01:30
+  CHECK(run.features[0].slack_seconds == 16200);
+  CHECK(run.features[1].status == FeatureStatus::never);  // through feed_b, which has no ok row
+  CHECK(chain_of(plan, r, run.features[1]) == "feed_b@never,join_ab@never,f_ab@never");
+  std::vector<std::string> unmonitored;
+  for (int n : r.unmonitored) unmonitored.push_back(plan.nodes[static_cast<size_t>(n)].id);
+  CHECK(unmonitored == std::vector<std::string>{"feed_a"});
+}
+
+namespace {
+
+NightlyReport failing_report(const Plan& plan) {
+  static History history;
+  history = tiny_history(plan);
+  return evaluate_nightly(plan, history, first_through(history), *parse_date("2026-03-03"), 2);
+}
+
+}  // namespace
+
+TEST_CASE("nightly JSON carries the issue's keys") {
+  Plan plan = load(kPlan);
+  NightlyReport r = failing_report(plan);
+  std::ostringstream out;
+  write_nightly_json(out, plan, r);
+  const std::string json = out.str();
+  for (const char* key : {"\"plan\": \"tiny\"", "\"date\": \"2026-03-03\"", "\"ok\": false", "\"runs\": [",
+                          "\"unmonitored\": [\"feed_b\"]", "\"drift\": [", "\"p50_offset_seconds\"",
+                          "\"p90_offset_seconds\"", "\"declared_seconds\": 1800", "\"trend_seconds_per_week\"",
+                          "\"drifting\": ", "\"on_time\": [", "\"at_local\": \"06:00\"", "\"days\": 2",
+                          "\"on_time\": 0", "\"rate\": 0.0000", "\"low\": 0.0000", "\"high\": 0.6576",
+                          "\"status\": \"not-landed\"", "\"chain\": [\"feed_a\", \"f_a\"]"}) {
+    INFO(key);
+    CHECK(json.find(key) != std::string::npos);
+  }
+}
+
+TEST_CASE("nightly JUnit XML is well-formed (xmllint)") {
+  if (std::system("command -v xmllint >/dev/null 2>&1") != 0) {
+    WARN("xmllint is not installed (Debian package libxml2-utils): JUnit XML not validated");
+    return;
+  }
+  Plan plan = load(kPlan);
+  NightlyReport r = failing_report(plan);
+  std::ostringstream out;
+  write_nightly_junit(out, plan, r);
+  readyby_test::TempDir dir;
+  readyby_test::write_text(dir.file("junit.xml"), out.str());
+  CHECK(std::system(("xmllint --noout " + dir.file("junit.xml") + " 2>" + dir.file("lint.txt")).c_str()) == 0);
+  INFO(readyby_test::read_text(dir.file("lint.txt")));
+  CHECK(out.str().find("<testcase classname=\"tiny.m\" name=\"m at 2026-03-03T06:00:00+00:00\"") != std::string::npos);
+  CHECK(out.str().find("<failure type=\"fail\" message=\"f_a: not landed; f_ab: not landed\">") != std::string::npos);
+  CHECK(out.str().find("f_a: not landed\n  chain: feed_a@not-landed f_a@not-landed") != std::string::npos);
+}
+
+namespace {
+
+// A check of the OpenMetrics text format (OpenMetrics 1.0 ABNF, the parts
+// readyby uses): metadata lines, samples with labels, every family's
+// metadata before its samples and its samples contiguous, unit suffixes, and
+// `# EOF` as the last line.
+std::vector<std::string> openmetrics_problems(const std::string& text) {
+  std::vector<std::string> problems;
+  const std::string name = "[a-zA-Z_:][a-zA-Z0-9_:]*";
+  const std::string label_value = R"("(?:[^"\\\n]|\\\\|\\"|\\n)*")";
+  const std::string labels = "\\{(?:[a-zA-Z_][a-zA-Z0-9_]*=" + label_value + "(?:,[a-zA-Z_][a-zA-Z0-9_]*=" +
+                             label_value + ")*)?\\}";
+  const std::string number = R"([-+]?(?:[0-9]+(?:\.[0-9]*)?(?:[eE][-+]?[0-9]+)?|\.[0-9]+|Inf|NaN))";
+  const std::regex type_line("# TYPE (" + name + ") (gauge|counter|info|stateset|unknown)");
+  const std::regex unit_line("# UNIT (" + name + ") ([a-zA-Z0-9_:]+)");
+  const std::regex help_line("# HELP (" + name + ") (?:[^\\\\\n]|\\\\\\\\|\\\\n|\\\\\")*");
+  const std::regex sample_line("(" + name + ")(?:" + labels + ")? " + number);
+  if (text.empty() || text.back() != '\n') problems.push_back("does not end with a newline");
+  std::istringstream in(text);
+  std::string line, current;
+  std::set<std::string> families;
+  bool eof = false;
+  int number_of_line = 0;
+  while (std::getline(in, line)) {
+    ++number_of_line;
+    std::string where = "line " + std::to_string(number_of_line) + ": ";
+    std::smatch m;
+    if (eof) problems.push_back(where + "text after # EOF");
+    if (line == "# EOF") {
+      eof = true;
+    } else if (std::regex_match(line, m, type_line)) {
+      if (!families.insert(m[1]).second) problems.push_back(where + "family declared twice: " + m[1].str());
+      current = m[1];
+    } else if (std::regex_match(line, m, unit_line)) {
+      if (m[1] != current) problems.push_back(where + "UNIT for another family");
+      if (!current.ends_with("_" + m[2].str())) problems.push_back(where + "name lacks the unit suffix");
+    } else if (std::regex_match(line, m, help_line)) {
+      if (m[1] != current) problems.push_back(where + "HELP for another family");
+    } else if (std::regex_match(line, m, sample_line)) {
+      if (m[1] != current) problems.push_back(where + "sample outside its family: " + m[1].str());
+    } else {
+      problems.push_back(where + "not OpenMetrics: " + line);
+    }
+  }
+  if (!eof) problems.push_back("missing # EOF");
+  return problems;
+}
+
+}  // namespace
+
+TEST_CASE("nightly OpenMetrics exposition follows the text format") {
+  Plan plan = load(kPlan);
+  NightlyReport r = failing_report(plan);
+  std::ostringstream out;
+  write_nightly_metrics(out, plan, r);
+  INFO(out.str());
+  CHECK(openmetrics_problems(out.str()).empty());
+  for (const std::string& p : openmetrics_problems(out.str())) INFO(p);
+  CHECK(out.str().find("readyby_feature_landed{plan=\"tiny\",model=\"m\",run=\"2026-03-03T06:00:00+00:00\",feature=\"f_a\"} 0") !=
+        std::string::npos);
+  CHECK(out.str().find("readyby_run_on_time_ratio{plan=\"tiny\",model=\"m\",at_local=\"06:00\"} 0") != std::string::npos);
+  // The checker itself rejects what it should.
+  CHECK_FALSE(openmetrics_problems("# TYPE a gauge\nb 1\n# EOF\n").empty());
+  CHECK_FALSE(openmetrics_problems("# TYPE a gauge\na 1\n").empty());
+  CHECK_FALSE(openmetrics_problems("# TYPE a gauge\n# UNIT a seconds\na{x=\"1} 1\n# EOF\n").empty());
+}
