@@ -388,7 +388,7 @@ bool list_yaml(const fs::path& dir, std::vector<std::string>* out, std::error_co
 std::string Horizon::str() const { return in_hospital ? "in-hospital" : format_duration(duration); }
 
 std::string Publication::citation() const {
-  std::string out = authors + ". " + title;
+  std::string out = authors + (!authors.empty() && authors.back() == '.' ? " " : ". ") + title;
   if (!out.empty() && out.back() != '.' && out.back() != '?') out += '.';
   out += " " + journal + " " + std::to_string(year) + ".";
   if (!doi.empty()) out += " doi:" + doi;

@@ -269,10 +269,11 @@ const char* to_string(Recommendation r) {
 }
 
 ReuseReport match_proposal(const Proposal& proposal, const OutcomeResolution& resolution,
-                           const Vocabulary& vocabulary, const std::vector<Entry>& entries) {
+                           const Vocabulary& vocabulary, const std::vector<Entry>& entries,
+                           std::optional<size_t> searched) {
   ReuseReport report;
   report.resolution = resolution;
-  report.searched = entries.size();
+  report.searched = searched.value_or(entries.size());
   std::vector<Judged> judged;
   for (const Entry& e : entries) {
     Judged j;

@@ -29,6 +29,7 @@
 // so the ranking is deterministic. The recommendation is `reuse` when some
 // candidate covers, `adapt` when some partly covers, else `build`.
 
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -71,8 +72,11 @@ struct ReuseReport {
 
 /// Judges every entry of `entries` against `proposal`, whose outcome text
 /// resolved to `resolution`.
+/// `searched`: how many entries the catalogue holds, when `entries` is only
+/// the part of it that can relate to the proposal (default: entries.size()).
 ReuseReport match_proposal(const Proposal& proposal, const OutcomeResolution& resolution,
-                           const Vocabulary& vocabulary, const std::vector<Entry>& entries);
+                           const Vocabulary& vocabulary, const std::vector<Entry>& entries,
+                           std::optional<size_t> searched = std::nullopt);
 
 /// The cautions every catalogue report carries (DESIGN.md §8).
 const std::vector<std::string>& catalogue_cautions();

@@ -8,18 +8,14 @@
 #include "catalog/reuse.h"
 #include "cli/catalog_session.h"
 #include "cli/commands.h"
+#include "cli/options.h"
 #include "util/text.h"
 
 namespace readyby {
 
 namespace {
 
-const Command& self() {
-  for (const Command& c : command_table()) {
-    if (std::string(c.name) == "catalog") return c;
-  }
-  return command_table().front();
-}
+const Command& self() { return command_named("catalog"); }
 
 void print_cautions(const char* indent) {
   std::printf("\ncautions:\n");
@@ -72,26 +68,20 @@ struct SearchOptions {
 std::string parse_search_args(const std::vector<std::string>& args, SearchOptions* o) {
   for (size_t i = 0; i < args.size(); ++i) {
     const std::string& a = args[i];
-    auto value = [&](const char* name) -> std::optional<std::string> {
-      std::string prefix = std::string(name) + "=";
-      if (a.starts_with(prefix)) return a.substr(prefix.size());
-      if (a == name && i + 1 < args.size()) return args[++i];
-      return std::nullopt;
-    };
-    if (a.starts_with("--setting")) {
-      auto v = value("--setting");
+    if (is_option(a, "--setting")) {
+      auto v = option_value(args, &i, "--setting");
       if (!v) return "--setting needs a setting id";
       o->setting = *v;
-    } else if (a.starts_with("--outcome")) {
-      auto v = value("--outcome");
+    } else if (is_option(a, "--outcome")) {
+      auto v = option_value(args, &i, "--outcome");
       if (!v) return "--outcome needs a concept id or text";
       o->outcome = *v;
-    } else if (a.starts_with("--format")) {
-      auto v = value("--format");
+    } else if (is_option(a, "--format")) {
+      auto v = option_value(args, &i, "--format");
       if (!v || (*v != "text" && *v != "json")) return "--format must be text or json";
       o->format = *v;
-    } else if (a.starts_with("--limit")) {
-      auto v = value("--limit");
+    } else if (is_option(a, "--limit")) {
+      auto v = option_value(args, &i, "--limit");
       char* end = nullptr;
       long n = v ? std::strtol(v->c_str(), &end, 10) : 0;
       if (!v || v->empty() || *end || n < 1 || n > 10000) return "--limit needs a whole number from 1 to 10000";

@@ -1,4 +1,5 @@
 #include "cli/catalog_session.h"
+#include "cli/options.h"
 
 #include <unistd.h>
 
@@ -28,11 +29,10 @@ std::string take_registries(std::vector<std::string>* args, std::vector<std::str
   std::vector<std::string> rest;
   for (size_t i = 0; i < args->size(); ++i) {
     const std::string& a = (*args)[i];
-    if (a == "--registry") {
-      if (i + 1 >= args->size()) return "--registry needs a folder";
-      registries->push_back((*args)[++i]);
-    } else if (a.starts_with("--registry=")) {
-      registries->push_back(a.substr(11));
+    if (is_option(a, "--registry")) {
+      std::optional<std::string> folder = option_value(*args, &i, "--registry");
+      if (!folder || folder->empty()) return "--registry needs a folder";
+      registries->push_back(*folder);
     } else {
       rest.push_back(a);
     }

@@ -60,6 +60,16 @@ const char kReuseUsage[] =
     "  entry and recommends reuse, adapt or build, criterion by criterion.\n"
     "  --registry layers a local registry folder over the shipped one (repeatable).\n"
     "  Exit 0 on success, 2 on invalid input.\n";
+const char kIntakeUsage[] =
+    "usage: readyby intake PROPOSAL [--from YYYY-MM-DD] [--days N] [--registry DIR]...\n"
+    "                      [--format text|json|markdown]\n"
+    "  One screening report for a proposed model: will its data be there in time (the\n"
+    "  proposal's plan and model, checked over [from, from+days)), has an established score\n"
+    "  already covered it, can those scores run on time on this plan, and the recommendation:\n"
+    "  reuse-and-validate, fix-data-plan-first, close-gaps-or-build or build.\n"
+    "  The proposal must name a plan and a model. Defaults: --from today in the model's zone,\n"
+    "  --days 28, --format text (markdown is made to paste into a review ticket).\n"
+    "  Exit 0 when every run is ok or degraded, 1 when some run fails, 2 on bad input.\n";
 
 }  // namespace
 
@@ -71,6 +81,7 @@ const std::vector<Command>& command_table() {
       {"nightly", "check one day's runs against what actually landed", kNightlyUsage, cmd_nightly},
       {"catalog", "validate, search and show the catalogue of published scores", kCatalogUsage, cmd_catalog},
       {"reuse", "has an established score already covered this proposal?", kReuseUsage, cmd_reuse},
+      {"intake", "screen a proposed model: data timing, established scores, recommendation", kIntakeUsage, cmd_intake},
       {"help", "list the commands, or show one command's usage", kHelpUsage, cmd_help},
   };
   return kTable;

@@ -8,17 +8,13 @@
 #include "catalog/reuse_writer.h"
 #include "cli/catalog_session.h"
 #include "cli/commands.h"
+#include "cli/options.h"
 
 namespace readyby {
 
 namespace {
 
-const Command& self() {
-  for (const Command& c : command_table()) {
-    if (std::string(c.name) == "reuse") return c;
-  }
-  return command_table().front();
-}
+const Command& self() { return command_named("reuse"); }
 
 }  // namespace
 
@@ -30,8 +26,8 @@ int cmd_reuse(const std::vector<std::string>& raw) {
   std::string format = "text", proposal_path;
   for (size_t i = 0; problem.empty() && i < args.size(); ++i) {
     const std::string& a = args[i];
-    if (a == "--format" || a.starts_with("--format=")) {
-      std::string v = a == "--format" ? (i + 1 < args.size() ? args[++i] : "") : a.substr(9);
+    if (is_option(a, "--format")) {
+      std::string v = option_value(args, &i, "--format").value_or("");
       if (v != "text" && v != "json") problem = "--format must be text or json";
       format = v;
     } else if (a.starts_with("-")) {
@@ -73,8 +69,7 @@ int cmd_reuse(const std::vector<std::string>& raw) {
     std::cerr << "readyby: cannot read the catalogue index: " << error << "\n";
     return kExitBadInput;
   }
-  ReuseReport report = match_proposal(*proposal, resolution, session.vocabulary, entries);
-  report.searched = session.index->size();
+  ReuseReport report = match_proposal(*proposal, resolution, session.vocabulary, entries, session.index->size());
   std::string out = format == "json" ? reuse_json(*proposal, report) : reuse_text(*proposal, report, session.vocabulary);
   std::fputs(out.c_str(), stdout);
   return kExitOk;
