@@ -12,3 +12,16 @@ run validate "$PLAN"
 # Four weeks around the US daylight-saving change of 2026-03-08.
 run check "$PLAN" --from 2026-02-22 --days 28
 run check "$PLAN" --run discharge_delay@2026-03-08T06:30
+# Nightly monitoring: record 60 days of fictional landings (twice: the second
+# time adds nothing), then check one day against what actually landed.
+DB="$(mktemp -d)/history.db"
+run record pipelines/landing-logs/feeds-2026-01.csv pipelines/landing-logs/feeds-2026-02.csv \
+    pipelines/landing-logs/feeds-2026-03.csv --plan "$PLAN" --db "$DB"
+run record pipelines/landing-logs/integration-server.jsonl --plan "$PLAN" --db "$DB" \
+    --map node=task,landed_at=load_end_ts,data_through=watermark,status=state
+run record pipelines/landing-logs/feeds-2026-03.csv --plan "$PLAN" --db "$DB"
+run nightly "$PLAN" --db "$DB" --date 2026-03-03
+# The screening report for two fictional proposals.
+export READYBY_CACHE_DIR="${READYBY_CACHE_DIR:-$PWD/build/cache}"
+run intake pipelines/readmit-30d.proposal.yaml --from 2026-02-22 --days 28
+run intake pipelines/day-case-return-to-theatre.proposal.yaml --from 2026-02-22 --days 28 --format markdown
