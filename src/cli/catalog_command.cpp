@@ -81,11 +81,9 @@ std::string parse_search_args(const std::vector<std::string>& args, SearchOption
       if (!v || (*v != "text" && *v != "json")) return "--format must be text or json";
       o->format = *v;
     } else if (is_option(a, "--limit")) {
-      auto v = option_value(args, &i, "--limit");
-      char* end = nullptr;
-      long n = v ? std::strtol(v->c_str(), &end, 10) : 0;
-      if (!v || v->empty() || *end || n < 1 || n > 10000) return "--limit needs a whole number from 1 to 10000";
-      o->limit = static_cast<size_t>(n);
+      std::optional<long> n = whole_number(option_value(args, &i, "--limit"), 1, 10000);
+      if (!n) return "--limit needs a whole number from 1 to 10000";
+      o->limit = static_cast<size_t>(*n);
     } else if (a.starts_with("-")) {
       return "unknown option '" + a + "'";
     } else {

@@ -39,11 +39,9 @@ std::string parse_intake_args(std::vector<std::string> args, IntakeOptions* o) {
       auto v = option_value(args, &i, "--from");
       if (!v || !(o->from = parse_date(*v))) return "--from needs a date YYYY-MM-DD";
     } else if (is_option(a, "--days")) {
-      auto v = option_value(args, &i, "--days");
-      char* end = nullptr;
-      long n = v ? std::strtol(v->c_str(), &end, 10) : 0;
-      if (!v || v->empty() || *end || n < 1 || n > 3660) return "--days needs a whole number from 1 to 3660";
-      o->days = static_cast<int>(n);
+      std::optional<long> n = whole_number(option_value(args, &i, "--days"), 1, 3660);
+      if (!n) return "--days needs a whole number from 1 to 3660";
+      o->days = static_cast<int>(*n);
     } else if (is_option(a, "--format")) {
       auto v = option_value(args, &i, "--format");
       if (!v || (*v != "text" && *v != "json" && *v != "markdown")) return "--format must be text, json or markdown";

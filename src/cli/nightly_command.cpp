@@ -6,6 +6,7 @@
 #include <iostream>
 
 #include "cli/commands.h"
+#include "cli/options.h"
 #include "history/nightly.h"
 #include "history/store.h"
 #include "plan/plan_loader.h"
@@ -23,37 +24,24 @@ struct NightlyOptions {
   std::string format = "text";
 };
 
-const Command& nightly_command() {
-  for (const Command& c : command_table()) {
-    if (std::string_view(c.name) == "nightly") return c;
-  }
-  return command_table().front();
-}
+const Command& nightly_command() { return command_named("nightly"); }
 
 std::string parse_nightly_args(const std::vector<std::string>& args, NightlyOptions* o) {
   for (size_t i = 0; i < args.size(); ++i) {
     const std::string& a = args[i];
-    auto value = [&](const char* name) -> std::optional<std::string> {
-      std::string prefix = std::string(name) + "=";
-      if (a.starts_with(prefix)) return a.substr(prefix.size());
-      if (a == name && i + 1 < args.size()) return args[++i];
-      return std::nullopt;
-    };
-    if (a == "--db" || a.starts_with("--db=")) {
-      auto v = value("--db");
+    if (is_option(a, "--db")) {
+      auto v = option_value(args, &i, "--db");
       if (!v || v->empty()) return "--db needs a FILE";
       o->db_path = *v;
-    } else if (a == "--date" || a.starts_with("--date=")) {
-      auto v = value("--date");
+    } else if (is_option(a, "--date")) {
+      auto v = option_value(args, &i, "--date");
       if (!v || !(o->date = parse_date(*v))) return "--date needs a date YYYY-MM-DD";
-    } else if (a == "--window" || a.starts_with("--window=")) {
-      auto v = value("--window");
-      char* end = nullptr;
-      long n = v ? std::strtol(v->c_str(), &end, 10) : 0;
-      if (!v || v->empty() || *end || n < 1 || n > 366) return "--window needs a whole number of days from 1 to 366";
-      o->window = static_cast<int>(n);
-    } else if (a == "--format" || a.starts_with("--format=")) {
-      auto v = value("--format");
+    } else if (is_option(a, "--window")) {
+      std::optional<long> n = whole_number(option_value(args, &i, "--window"), 1, 366);
+      if (!n) return "--window needs a whole number of days from 1 to 366";
+      o->window = static_cast<int>(*n);
+    } else if (is_option(a, "--format")) {
+      auto v = option_value(args, &i, "--format");
       if (!v || (*v != "text" && *v != "json" && *v != "junit" && *v != "metrics")) {
         return "--format must be text, json, junit or metrics";
       }

@@ -27,6 +27,14 @@ const Command& command_named(std::string_view name) {
   return command_table().front();
 }
 
+std::optional<long> whole_number(const std::optional<std::string>& text, long lo, long hi) {
+  if (!text || text->empty()) return std::nullopt;
+  char* end = nullptr;
+  long n = std::strtol(text->c_str(), &end, 10);
+  if (*end || n < lo || n > hi) return std::nullopt;
+  return n;
+}
+
 bool use_colour() {
   const char* no_colour = std::getenv("NO_COLOR");
   if (no_colour && *no_colour) return false;

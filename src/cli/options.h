@@ -25,4 +25,8 @@ const Command& command_named(std::string_view name);
 /// Colour only on a terminal, never when NO_COLOR is set or TERM is dumb.
 bool use_colour();
 
+/// `text` as a whole number in [lo, hi]; nullopt when absent, not a number
+/// or out of range.
+std::optional<long> whole_number(const std::optional<std::string>& text, long lo, long hi);
+
 }  // namespace readyby

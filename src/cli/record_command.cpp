@@ -5,6 +5,7 @@
 #include <iostream>
 
 #include "cli/commands.h"
+#include "cli/options.h"
 #include "history/landing_log.h"
 #include "history/store.h"
 #include "plan/plan_loader.h"
@@ -20,32 +21,21 @@ struct RecordOptions {
   ColumnMap map;
 };
 
-const Command& record_command() {
-  for (const Command& c : command_table()) {
-    if (std::string_view(c.name) == "record") return c;
-  }
-  return command_table().front();
-}
+const Command& record_command() { return command_named("record"); }
 
 std::string parse_record_args(const std::vector<std::string>& args, RecordOptions* o) {
   for (size_t i = 0; i < args.size(); ++i) {
     const std::string& a = args[i];
-    auto value = [&](const char* name) -> std::optional<std::string> {
-      std::string prefix = std::string(name) + "=";
-      if (a.starts_with(prefix)) return a.substr(prefix.size());
-      if (a == name && i + 1 < args.size()) return args[++i];
-      return std::nullopt;
-    };
-    if (a == "--plan" || a.starts_with("--plan=")) {
-      auto v = value("--plan");
+    if (is_option(a, "--plan")) {
+      auto v = option_value(args, &i, "--plan");
       if (!v || v->empty()) return "--plan needs a PLAN file";
       o->plan_path = *v;
-    } else if (a == "--db" || a.starts_with("--db=")) {
-      auto v = value("--db");
+    } else if (is_option(a, "--db")) {
+      auto v = option_value(args, &i, "--db");
       if (!v || v->empty()) return "--db needs a FILE";
       o->db_path = *v;
-    } else if (a == "--map" || a.starts_with("--map=")) {
-      auto v = value("--map");
+    } else if (is_option(a, "--map")) {
+      auto v = option_value(args, &i, "--map");
       if (!v) return "--map needs FIELD=COLUMN pairs";
       std::string problem;
       std::optional<ColumnMap> map = parse_column_map(*v, &problem);
