@@ -5,28 +5,16 @@
 #include <cstdlib>
 #include <fstream>
 #include <string>
-#include <sys/wait.h>
+#include "run_binary.h"
 
 // The command line as a user meets it: exit statuses and streams.
 
 namespace {
 
-struct Outcome {
-  int status;
-  std::string out;
-};
+using readyby::testing::Outcome;
 
 Outcome run(const std::string& args) {
-  std::string cmd = std::string("NO_COLOR=1 ") + READYBY_BINARY + " " + args + " 2>&1";
-  Outcome o{-1, ""};
-  FILE* pipe = popen(cmd.c_str(), "r");
-  if (!pipe) return o;
-  std::array<char, 4096> buf;
-  size_t n;
-  while ((n = fread(buf.data(), 1, buf.size(), pipe)) > 0) o.out.append(buf.data(), n);
-  int raw = pclose(pipe);
-  o.status = WIFEXITED(raw) ? WEXITSTATUS(raw) : -1;
-  return o;
+  return readyby::testing::run_shell(std::string("NO_COLOR=1 ") + READYBY_BINARY + " " + args + " 2>&1");
 }
 
 const std::string kDemo = std::string(READYBY_SOURCE_DIR) + "/pipelines/larkspur.plan.yaml";

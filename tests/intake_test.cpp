@@ -10,8 +10,9 @@
 #include <map>
 #include <memory>
 #include <string>
-#include <sys/wait.h>
 #include <vector>
+
+#include "run_binary.h"
 
 // `readyby intake` as a user meets it: the two demo proposals, field by field
 // in JSON, the text and Markdown reports, and bad proposals. Runs the binary;
@@ -152,10 +153,7 @@ class JsonParser {
   size_t i_ = 0;
 };
 
-struct Outcome {
-  int status = -1;
-  std::string out;   // stdout and stderr together
-};
+using readyby::testing::Outcome;
 
 // A folder of this test process, removed when the tests end.
 struct TempDir {
@@ -177,15 +175,7 @@ const fs::path& temp_dir() {
 Outcome run(const std::string& args) {
   std::string cmd = "NO_COLOR=1 READYBY_CACHE_DIR='" + (temp_dir() / "cache").string() + "' READYBY_REGISTRY='" +
                     std::string(READYBY_SOURCE_DIR) + "/registries' " + READYBY_BINARY + " " + args + " 2>&1";
-  Outcome o;
-  FILE* pipe = popen(cmd.c_str(), "r");
-  if (!pipe) return o;
-  std::array<char, 4096> buf;
-  size_t n;
-  while ((n = fread(buf.data(), 1, buf.size(), pipe)) > 0) o.out.append(buf.data(), n);
-  int raw = pclose(pipe);
-  o.status = WIFEXITED(raw) ? WEXITSTATUS(raw) : -1;
-  return o;
+  return readyby::testing::run_shell(cmd);
 }
 
 const std::string kPipelines = std::string(READYBY_SOURCE_DIR) + "/pipelines/";

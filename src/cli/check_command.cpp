@@ -81,12 +81,9 @@ int cmd_check(const std::vector<std::string>& args) {
   CheckOptions o;
   std::string problem = parse_check_args(args, &o);
   if (!problem.empty()) return usage_error(problem, self.usage);
-  PlanLoadResult loaded = load_plan_file(o.plan_path);
-  if (!loaded.plan) {
-    std::cerr << loaded.rendered;
-    return kExitBadInput;
-  }
-  const Plan& plan = *loaded.plan;
+  std::optional<Plan> loaded = load_plan_or_report(o.plan_path);
+  if (!loaded) return kExitBadInput;
+  const Plan& plan = *loaded;
   if (!o.run.empty()) return explain_run(plan, o);
   if (!o.from) {
     Instant now = std::chrono::time_point_cast<Seconds>(std::chrono::system_clock::now());

@@ -66,12 +66,9 @@ int cmd_nightly(const std::vector<std::string>& args) {
   NightlyOptions o;
   std::string problem = parse_nightly_args(args, &o);
   if (!problem.empty()) return usage_error(problem, self.usage);
-  PlanLoadResult loaded = load_plan_file(o.plan_path);
-  if (!loaded.plan) {
-    std::cerr << loaded.rendered;
-    return kExitBadInput;
-  }
-  const Plan& plan = *loaded.plan;
+  std::optional<Plan> loaded = load_plan_or_report(o.plan_path);
+  if (!loaded) return kExitBadInput;
+  const Plan& plan = *loaded;
   if (!o.date) {
     Instant now = std::chrono::time_point_cast<Seconds>(std::chrono::system_clock::now());
     o.date = date::floor<date::days>(plan.zone->to_local(now));

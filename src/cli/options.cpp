@@ -4,7 +4,10 @@
 
 #include <cstdlib>
 
+#include <iostream>
+
 #include "cli/commands.h"
+#include "plan/plan_loader.h"
 
 namespace readyby {
 
@@ -25,6 +28,12 @@ const Command& command_named(std::string_view name) {
     if (name == c.name) return c;
   }
   return command_table().front();
+}
+
+std::optional<Plan> load_plan_or_report(const std::string& path) {
+  PlanLoadResult loaded = load_plan_file(path);
+  if (!loaded.plan) std::cerr << loaded.rendered;
+  return std::move(loaded.plan);
 }
 
 std::optional<long> whole_number(const std::optional<std::string>& text, long lo, long hi) {

@@ -10,6 +10,7 @@
 namespace readyby {
 
 struct Command;
+struct Plan;
 
 /// The value of option `name` at args[*i], written `--name=value` or
 /// `--name value` (then *i advances past the value); nullopt when args[*i] is
@@ -24,6 +25,10 @@ const Command& command_named(std::string_view name);
 
 /// Colour only on a terminal, never when NO_COLOR is set or TERM is dumb.
 bool use_colour();
+
+/// Loads the plan at `path`; on any error prints every diagnostic (with
+/// source lines and carets) to stderr and returns nullopt.
+std::optional<Plan> load_plan_or_report(const std::string& path);
 
 /// `text` as a whole number in [lo, hi]; nullopt when absent, not a number
 /// or out of range.

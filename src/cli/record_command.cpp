@@ -60,12 +60,9 @@ int cmd_record(const std::vector<std::string>& args) {
   RecordOptions o;
   std::string problem = parse_record_args(args, &o);
   if (!problem.empty()) return usage_error(problem, self.usage);
-  PlanLoadResult loaded = load_plan_file(o.plan_path);
-  if (!loaded.plan) {
-    std::cerr << loaded.rendered;
-    return kExitBadInput;
-  }
-  const Plan& plan = *loaded.plan;
+  std::optional<Plan> loaded = load_plan_or_report(o.plan_path);
+  if (!loaded) return kExitBadInput;
+  const Plan& plan = *loaded;
 
   // Validate every file before writing anything.
   std::vector<LandingLog> logs;
