@@ -25,5 +25,7 @@ fi
 BUILD_DIR="${1:-build}"
 shift || true
 cmake -S . -B "$BUILD_DIR" -DCMAKE_BUILD_TYPE=RelWithDebInfo "$@" >/dev/null
-cmake --build "$BUILD_DIR" -j"$(nproc)" 2>&1 | grep -E "error|warning|Error" || true
+# The full log stays in BUILD_DIR/build.log (scripts/test.sh checks it for warnings).
+cmake --build "$BUILD_DIR" -j"$(nproc)" > "$BUILD_DIR/build.log" 2>&1 || true
+grep -E "error|warning|Error" "$BUILD_DIR/build.log" || true
 test -x "$BUILD_DIR/readyby" || { echo "readyby: build failed" >&2; exit 2; }
