@@ -109,6 +109,18 @@ TEST_CASE("demo: the text report names patterns, chains and fixes") {
   CHECK(coloured.str().find("\033[31;1m") != std::string::npos);
 }
 
+TEST_CASE("demo: a lazy evaluation writes the same JSON as a stored one") {
+  const Demo& d = demo();
+  Evaluation lazy = evaluate_lazily(d.plan, *parse_date("2026-02-22"), 28);
+  CHECK(lazy.runs.empty());
+  CHECK(lazy.pending_count() == d.ev.runs.size());
+  CHECK(lazy.ok() == d.ev.ok());
+  std::ostringstream a, b;
+  write_check_json(a, d.plan, d.ev);
+  write_check_json(b, d.plan, lazy);
+  CHECK(a.str() == b.str());
+}
+
 TEST_CASE("demo: JSON keys and ordering follow DESIGN §5") {
   const Demo& d = demo();
   std::ostringstream json;

@@ -23,9 +23,6 @@ const char* to_string(RunStatus s) {
   return "?";
 }
 
-bool Evaluation::ok() const {
-  return std::none_of(runs.begin(), runs.end(), [](const RunResult& r) { return r.status == RunStatus::fail; });
-}
 
 std::vector<Instant> run_instants(const Plan& plan, const Model& model, LocalDays from, int days) {
   std::vector<Instant> out;
@@ -84,13 +81,40 @@ std::vector<Finding> plan_findings(const Plan& plan, const Lineage& lineage) {
 
 namespace {
 
-struct PendingRun {
-  int model;
-  Instant at;
-};
+using PendingRun = Evaluation::PendingRun;
 
-Evaluation evaluate_runs(const Plan& plan, std::vector<PendingRun> pending, const ObservedDeliveries* observed) {
+// One run, every feature: needs_data_through, ready_at, slack, status.
+RunResult evaluate_run(const Plan& plan, const FreshnessEngine& engine, const PendingRun& p) {
+  const Model& model = plan.models[static_cast<size_t>(p.model)];
+  RunResult run;
+  run.model = p.model;
+  run.at = p.at;
+  run.features.reserve(model.features.size());
+  bool fail = false, degraded = false;
+  for (int f : model.features) {
+    const Node& feature = plan.nodes[static_cast<size_t>(f)];
+    FeatureResult fr;
+    fr.feature = f;
+    fr.optional = feature.optional;
+    fr.needs_data_through = p.at - Seconds(feature.max_age.seconds);
+    fr.ready_at = engine.ready(f, fr.needs_data_through);
+    if (!fr.ready_at) {
+      fr.status = FeatureStatus::never;
+    } else {
+      fr.slack_seconds = (p.at - *fr.ready_at).count();
+      fr.status = fr.slack_seconds >= 0 ? FeatureStatus::ok : FeatureStatus::late;
+    }
+    if (fr.status != FeatureStatus::ok) (feature.optional ? degraded : fail) = true;
+    run.features.push_back(fr);
+  }
+  run.status = fail ? RunStatus::fail : degraded ? RunStatus::degraded : RunStatus::ok;
+  return run;
+}
+
+Evaluation evaluate_runs(const Plan& plan, std::vector<PendingRun> pending, const ObservedDeliveries* observed,
+                         bool store) {
   Evaluation ev;
+  ev.plan_ = &plan;
   std::sort(pending.begin(), pending.end(), [&](const PendingRun& a, const PendingRun& b) {
     if (a.at != b.at) return a.at < b.at;
     return plan.models[static_cast<size_t>(a.model)].id < plan.models[static_cast<size_t>(b.model)].id;
@@ -111,52 +135,45 @@ Evaluation evaluate_runs(const Plan& plan, std::vector<PendingRun> pending, cons
   if (w_lo > w_hi) w_lo = w_hi = 0;
   ev.engine_ = std::make_unique<FreshnessEngine>(plan, *ev.lineage_, needed, from_unix(w_lo),
                                                  from_unix(w_hi + kLaterStartSearch), observed);
-  ev.runs.reserve(pending.size());
+  if (store) ev.runs.reserve(pending.size());
   for (const PendingRun& p : pending) {
-    const Model& model = plan.models[static_cast<size_t>(p.model)];
-    RunResult run;
-    run.model = p.model;
-    run.at = p.at;
-    run.features.reserve(model.features.size());
-    bool fail = false, degraded = false;
-    for (int f : model.features) {
-      const Node& feature = plan.nodes[static_cast<size_t>(f)];
-      FeatureResult fr;
-      fr.feature = f;
-      fr.optional = feature.optional;
-      fr.needs_data_through = p.at - Seconds(feature.max_age.seconds);
-      fr.ready_at = ev.engine_->ready(f, fr.needs_data_through);
-      if (!fr.ready_at) {
-        fr.status = FeatureStatus::never;
-      } else {
-        fr.slack_seconds = (p.at - *fr.ready_at).count();
-        fr.status = fr.slack_seconds >= 0 ? FeatureStatus::ok : FeatureStatus::late;
-      }
-      if (fr.status != FeatureStatus::ok) (feature.optional ? degraded : fail) = true;
-      run.features.push_back(fr);
-    }
-    run.status = fail ? RunStatus::fail : degraded ? RunStatus::degraded : RunStatus::ok;
-    ev.runs.push_back(std::move(run));
+    RunResult run = evaluate_run(plan, *ev.engine_, p);
+    ev.failed_ = ev.failed_ || run.status == RunStatus::fail;
+    if (store) ev.runs.push_back(std::move(run));
   }
+  if (!store) ev.pending_ = std::move(pending);
   ev.findings = plan_findings(plan, *ev.lineage_);
   return ev;
 }
 
-}  // namespace
-
-Evaluation evaluate(const Plan& plan, LocalDays from, int days, const ObservedDeliveries* observed) {
+std::vector<PendingRun> runs_in_window(const Plan& plan, LocalDays from, int days) {
   std::vector<PendingRun> pending;
   for (size_t m = 0; m < plan.models.size(); ++m) {
     for (Instant at : run_instants(plan, plan.models[m], from, days)) pending.push_back({static_cast<int>(m), at});
   }
-  Evaluation ev = evaluate_runs(plan, std::move(pending), observed);
+  return pending;
+}
+
+}  // namespace
+
+RunResult Evaluation::pending_run(size_t i) const { return evaluate_run(*plan_, *engine_, pending_[i]); }
+
+Evaluation evaluate(const Plan& plan, LocalDays from, int days, const ObservedDeliveries* observed) {
+  Evaluation ev = evaluate_runs(plan, runs_in_window(plan, from, days), observed, true);
+  ev.from = from;
+  ev.days = days;
+  return ev;
+}
+
+Evaluation evaluate_lazily(const Plan& plan, LocalDays from, int days) {
+  Evaluation ev = evaluate_runs(plan, runs_in_window(plan, from, days), nullptr, false);
   ev.from = from;
   ev.days = days;
   return ev;
 }
 
 Evaluation evaluate_single(const Plan& plan, int model, Instant at) {
-  Evaluation ev = evaluate_runs(plan, {{model, at}}, nullptr);
+  Evaluation ev = evaluate_runs(plan, {{model, at}}, nullptr, true);
   ev.from = date::floor<date::days>(plan.models[static_cast<size_t>(model)].zone->to_local(at));
   ev.days = 1;
   return ev;

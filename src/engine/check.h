@@ -54,7 +54,12 @@ class Evaluation {
   std::vector<Finding> findings;     // lookback findings, then unused, in plan order
 
   /// False iff some run fails.
-  bool ok() const;
+  bool ok() const { return !failed_; }
+
+  /// Runs evaluated but not stored (see evaluate_lazily): how many, and the
+  /// i-th, computed on demand, in the same order as `runs` would hold them.
+  size_t pending_count() const { return pending_.size(); }
+  RunResult pending_run(size_t i) const;
   /// The chain behind a feature result: node indices from a source to the feature.
   std::vector<int> chain(const FeatureResult& f) const { return engine_->chain(f.feature, f.needs_data_through); }
   /// E_n(w) for any node upstream of a model feature, w within the evaluated range.
@@ -63,6 +68,13 @@ class Evaluation {
 
   std::unique_ptr<FreshnessEngine> engine_;
   std::unique_ptr<Lineage> lineage_;
+  struct PendingRun {
+    int model;
+    Instant at;
+  };
+  std::vector<PendingRun> pending_;   // lazily evaluated runs (empty when `runs` is filled)
+  const Plan* plan_ = nullptr;
+  bool failed_ = false;
 };
 
 /// How far past the window the engine answers queries, so that reports can
@@ -74,6 +86,11 @@ inline constexpr int64_t kLaterStartSearch = 2 * kSecondsPerDay;
 /// fall on the same instant are one run. With `observed`, monitored nodes use
 /// their recorded deliveries (DESIGN §7); "never" then means "not landed".
 Evaluation evaluate(const Plan& plan, LocalDays from, int days, const ObservedDeliveries* observed = nullptr);
+
+/// Like evaluate, but keeps only the run instants: `runs` stays empty and
+/// each run is computed when asked for (pending_run), so memory does not
+/// grow with the number of runs. ok() is known at once.
+Evaluation evaluate_lazily(const Plan& plan, LocalDays from, int days);
 
 /// The runs of one model at one instant, evaluated alone (for --run). The
 /// instant need not be a scheduled run.

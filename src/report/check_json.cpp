@@ -46,7 +46,12 @@ void write_check_json(std::ostream& stream, const Plan& plan, const Evaluation& 
       << ",\n \"ok\": " << (ev.ok() ? "true" : "false") << ",\n \"runs\": [";
   bool first_run = true;
   std::string chain_text;
-  for (const RunResult& run : ev.runs) {
+  // Stored runs, or (for a lazy evaluation) each run computed as it is written.
+  const size_t run_count = ev.runs.empty() ? ev.pending_count() : ev.runs.size();
+  for (size_t r = 0; r < run_count; ++r) {
+    RunResult computed;
+    if (ev.runs.empty()) computed = ev.pending_run(r);
+    const RunResult& run = ev.runs.empty() ? computed : ev.runs[r];
     const Model& model = plan.models[static_cast<size_t>(run.model)];
     out << (first_run ? "\n  " : ",\n  ");
     first_run = false;
