@@ -93,6 +93,22 @@ TEST_CASE("demo: the known problems are found") {
   CHECK_FALSE(d.ev.ok());
 }
 
+TEST_CASE("demo: in autumn the stale read ends with the fall-back change") {
+  // tz database: America/Chicago returns to CST (-06:00) on 2026-11-01;
+  // from then on the Phoenix delivery (01:00 MST + 30m) lands at 02:30 CST,
+  // before hie_merge's 03:00 start again.
+  const Demo& d = demo();
+  Evaluation ev = evaluate(d.plan, *parse_date("2026-10-25"), 14);
+  std::vector<FailurePattern> patterns = failure_patterns(d.plan, ev);
+  REQUIRE_FALSE(patterns.empty());
+  const FailurePattern& stale = patterns[0];
+  CHECK(stale.when == FailurePattern::When::span);
+  CHECK(stale.description ==
+        "fails every run from 2026-10-26 to 2026-10-30 (5 runs), from the start of the window; it stops after a "
+        "daylight-saving change in America/Chicago (clocks back 1h 00m on 2026-11-01) while America/Phoenix kept its "
+        "clocks");
+}
+
 TEST_CASE("demo: the text report names patterns, chains and fixes") {
   const Demo& d = demo();
   std::ostringstream text;

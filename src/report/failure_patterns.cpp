@@ -176,8 +176,9 @@ struct RunInfo {
   int worst_feature_pos = -1;  // position in run.features
 };
 
-bool near_daylight_saving(const Plan& plan, const Evaluation& ev, const RunResult& run, const RunInfo& info,
-                          std::string* detail) {
+// The zones that matter to a failing run: the model's and those on the
+// chains of its failing features.
+std::set<const Zone*> zones_of(const Plan& plan, const Evaluation& ev, const RunResult& run, const RunInfo& info) {
   std::set<const Zone*> zones = {plan.models[static_cast<size_t>(run.model)].zone};
   for (int f : info.failing) {
     for (const FeatureResult& fr : run.features) {
@@ -185,28 +186,39 @@ bool near_daylight_saving(const Plan& plan, const Evaluation& ev, const RunResul
       for (int n : ev.chain(fr)) zones.insert(plan.nodes[static_cast<size_t>(n)].zone);
     }
   }
-  // A change of offset within the 36 hours before the run can shift a
-  // delivery or a trigger relative to the run.
+  return zones;
+}
+
+// A change of offset in one of `zones` within (from, to]: describes it
+// ("a daylight-saving change in Z (clocks forward 1h 00m on D) while Y kept
+// its clocks") and returns true.
+bool daylight_saving_between(const std::set<const Zone*>& zones, Instant from, Instant to, std::string* detail) {
   for (const Zone* z : zones) {
-    auto changes = z->transitions_in(run.at - Seconds(36 * 3600), run.at);
-    if (!changes.empty()) {
-      int64_t before = z->offset_at(changes[0] - Seconds(1)).count();
-      int64_t after = z->offset_at(changes[0]).count();
-      *detail = "a daylight-saving change in " + z->name() + " (clocks " +
-                (after > before ? "forward " : "back ") + human_duration(after > before ? after - before : before - after) +
-                " on " + format_local(z->to_local(changes[0])).substr(0, 10) + ")";
-      // Zones on the chain that did not change keep their clocks: their
-      // deliveries move by the difference, as seen from the changed zone.
-      std::string steady;
-      for (const Zone* other : zones) {
-        if (other == z || !other->transitions_in(changes[0] - Seconds(36 * 3600), changes[0] + Seconds(36 * 3600)).empty()) continue;
-        steady += (steady.empty() ? "" : ", ") + other->name();
-      }
-      if (!steady.empty()) *detail += " while " + steady + " kept its clocks";
-      return true;
+    auto changes = z->transitions_in(from, to);
+    if (changes.empty()) continue;
+    int64_t before = z->offset_at(changes[0] - Seconds(1)).count();
+    int64_t after = z->offset_at(changes[0]).count();
+    *detail = "a daylight-saving change in " + z->name() + " (clocks " + (after > before ? "forward " : "back ") +
+              human_duration(after > before ? after - before : before - after) + " on " +
+              format_local(z->to_local(changes[0])).substr(0, 10) + ")";
+    // Zones on the chain that did not change keep their clocks: their
+    // deliveries move by the difference, as seen from the changed zone.
+    std::string steady;
+    for (const Zone* other : zones) {
+      if (other == z || !other->transitions_in(changes[0] - Seconds(36 * 3600), changes[0] + Seconds(36 * 3600)).empty()) continue;
+      steady += (steady.empty() ? "" : ", ") + other->name();
     }
+    if (!steady.empty()) *detail += " while " + steady + " kept its clocks";
+    return true;
   }
   return false;
+}
+
+// A change of offset within the 36 hours before the run can shift a
+// delivery or a trigger relative to the run.
+bool near_daylight_saving(const Plan& plan, const Evaluation& ev, const RunResult& run, const RunInfo& info,
+                          std::string* detail) {
+  return daylight_saving_between(zones_of(plan, ev, run, info), run.at - Seconds(36 * 3600), run.at, detail);
 }
 
 }  // namespace
@@ -326,10 +338,20 @@ std::vector<FailurePattern> failure_patterns(const Plan& plan, const Evaluation&
                           " to " + format_local(model.zone->to_local(last.at)).substr(0, 10) + " (" +
                           std::to_string(rest.size()) + " runs)";
           std::string detail;
-          if (near_daylight_saving(plan, ev, first, *rest.front(), &detail)) {
+          if (positions.front() == 0) {
+            p.description += ", from the start of the window";
+          } else if (near_daylight_saving(plan, ev, first, *rest.front(), &detail)) {
             p.description += ", starting after " + detail;
           }
-          if (positions.back() + 1 == model_runs.size()) p.description += "; still failing at the end of the window";
+          if (positions.back() + 1 == model_runs.size()) {
+            p.description += "; still failing at the end of the window";
+          } else {
+            // What ended it: a change of clocks before the next run that passes.
+            const RunResult& next = ev.runs[model_runs[positions.back() + 1]];
+            if (daylight_saving_between(zones_of(plan, ev, last, *rest.back()), last.at, next.at, &detail)) {
+              p.description += "; it stops after " + detail;
+            }
+          }
           finish(std::move(p), rest);
           continue;
         }
