@@ -6,12 +6,6 @@ namespace readyby {
 
 namespace {
 
-std::string json_list(const std::vector<std::string>& items) {
-  std::string out = "[";
-  for (size_t i = 0; i < items.size(); ++i) out += (i ? ", " : "") + json_quote(items[i]);
-  return out + "]";
-}
-
 std::string concept_list(const std::vector<std::string>& ids, const Vocabulary& v) {
   std::string out;
   for (const std::string& id : ids) {

@@ -22,12 +22,6 @@ void print_cautions(const char* indent) {
   for (const std::string& c : catalogue_cautions()) std::printf("%s- %s\n", indent, c.c_str());
 }
 
-std::string json_list(const std::vector<std::string>& items) {
-  std::string out = "[";
-  for (size_t i = 0; i < items.size(); ++i) out += (i ? ", " : "") + json_quote(items[i]);
-  return out + "]";
-}
-
 int catalog_validate(std::vector<std::string> args) {
   std::vector<std::string> registries;
   std::string problem = take_registries(&args, &registries);

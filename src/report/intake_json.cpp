@@ -6,12 +6,6 @@ namespace readyby {
 
 namespace {
 
-std::string json_list(const std::vector<std::string>& items) {
-  std::string out = "[";
-  for (size_t i = 0; i < items.size(); ++i) out += (i ? ", " : "") + json_quote(items[i]);
-  return out + "]";
-}
-
 std::string json_fix(const std::optional<TimingFix>& fix) {
   if (!fix) return "null";
   return "{\"kind\": " + json_quote(to_string(fix->kind)) + ", \"node\": " + json_quote(fix->node) +

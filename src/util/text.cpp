@@ -90,4 +90,10 @@ std::string json_quote(std::string_view s) {
   return out;
 }
 
+std::string json_list(const std::vector<std::string>& items) {
+  std::string out = "[";
+  for (size_t i = 0; i < items.size(); ++i) out += (i ? ", " : "") + json_quote(items[i]);
+  return out + "]";
+}
+
 }  // namespace readyby

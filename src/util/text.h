@@ -25,4 +25,7 @@ size_t invalid_utf8_offset(std::string_view text);
 /// JSON string literal for `s` (RFC 8259 escaping), quotes included.
 std::string json_quote(std::string_view s);
 
+/// JSON array of string literals: ["a", "b"].
+std::string json_list(const std::vector<std::string>& items);
+
 }  // namespace readyby
