@@ -13,7 +13,7 @@
 #include <filesystem>
 #include <map>
 
-#include "catalog/yaml_fields.h"
+#include "util/yaml_fields.h"
 #include "plan/plan_loader.h"
 #include "time/zone.h"
 #include "util/text.h"

@@ -2,7 +2,7 @@
 
 #include <filesystem>
 
-#include "catalog/yaml_fields.h"
+#include "util/yaml_fields.h"
 #include "plan/plan_loader.h"
 #include "util/text.h"
 #include "util/yaml_tree.h"

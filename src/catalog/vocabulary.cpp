@@ -4,7 +4,7 @@
 #include <functional>
 #include <set>
 
-#include "catalog/yaml_fields.h"
+#include "util/yaml_fields.h"
 #include "util/text.h"
 #include "util/yaml_tree.h"
 

@@ -10,6 +10,7 @@
 
 #include "plan/lineage.h"
 #include "util/text.h"
+#include "util/yaml_fields.h"
 #include "util/yaml_tree.h"
 
 namespace readyby {
@@ -63,7 +64,7 @@ struct PendingModel {
 
 class Loader {
  public:
-  Loader(const std::string& text, const std::string& path) : text_(text), path_(path) {
+  Loader(const std::string& text, const std::string& path) : text_(text), path_(path), fields_(path, &diags_) {
     diags_.add_source(path, text);
   }
 
@@ -100,7 +101,7 @@ class Loader {
       error(root.pos, "a plan must be a map of keys (plan, timezone, sources, ...), found " + root.describe());
       return;
     }
-    check_keys(root, kRootKeys, "plan");
+    fields_.check_keys(root, kRootKeys, "plan");
     load_header(root);
     if (const YamlNode* cals = root.find("calendars")) load_calendars(*cals);
     const char* sections[] = {"sources", "jobs", "features"};
@@ -118,66 +119,15 @@ class Loader {
 
   // ---- generic helpers -------------------------------------------------
 
-  void check_keys(const YamlNode& map, const std::vector<std::string>& allowed, const std::string& what) {
-    for (const auto& [key, value] : map.entries) {
-      if (!key.is_scalar()) {
-        error(key.pos, "keys of " + what + " must be plain names");
-        continue;
-      }
-      if (std::find(allowed.begin(), allowed.end(), key.value) == allowed.end()) {
-        error(key.pos, "unknown key '" + key.value + "' in " + what + did_you_mean(key.value, allowed));
-      }
-    }
-  }
-
-  // Position of the key whose value is `value` within `map` (for messages
-  // about a missing or empty value).
-  static SourcePos key_pos(const YamlNode& map, const YamlNode* value) {
-    for (const auto& [k, v] : map.entries) {
-      if (&v == value) return k.pos;
-    }
-    return map.pos;
-  }
-
   std::optional<std::string> get_text(const YamlNode& map, const char* key, const std::string& what) {
     const YamlNode* v = map.find(key);
     if (!v) return std::nullopt;
     if (!v->is_scalar()) {
-      error(v->is_null() ? key_pos(map, v) : v->pos,
+      error(v->is_null() ? FieldReader::key_pos(map, v) : v->pos,
             "'" + std::string(key) + "' of " + what + " must be text, found " + v->describe());
       return std::nullopt;
     }
     return v->value;
-  }
-
-  // Column of byte `offset` inside scalar `v` (quoted scalars start one later).
-  static SourcePos inside(const YamlNode& v, size_t offset) {
-    bool quoted = !v.plain && v.pos.line > 0;
-    return {v.pos.line, v.pos.column + static_cast<int>(offset) + (quoted ? 1 : 0)};
-  }
-
-  std::optional<Duration> get_duration(const YamlNode& map, const char* key, const std::string& what) {
-    const YamlNode* v = map.find(key);
-    if (!v) return std::nullopt;
-    if (v->is_null()) {
-      error(key_pos(map, v), "'" + std::string(key) + "' of " + what + " has no value (expected an ISO 8601 duration such as PT30M)");
-      return std::nullopt;
-    }
-    if (!v->is_scalar()) {
-      error(v->pos, "'" + std::string(key) + "' of " + what + " must be an ISO 8601 duration such as PT30M, found " + v->describe());
-      return std::nullopt;
-    }
-    if (looks_numeric(*v)) {
-      error(v->pos, "'" + std::string(key) + "' of " + what + " must be an ISO 8601 duration such as PT30M or P1D, found " +
-                        v->describe() + " (a bare number has no unit)");
-      return std::nullopt;
-    }
-    DurationParse d = parse_duration(v->value);
-    if (!d.value) {
-      error(inside(*v, d.offset), "bad duration '" + v->value + "' for '" + key + "' of " + what + ": " + d.error);
-      return std::nullopt;
-    }
-    return d.value;
   }
 
   std::optional<Cron> get_cron(const YamlNode& v, const std::string& what) {
@@ -187,7 +137,7 @@ class Loader {
     }
     CronParse c = parse_cron(v.value);
     if (!c.value) {
-      error(inside(v, c.offset), "bad cron '" + v.value + "' in " + what + ": " + c.error);
+      error(FieldReader::inside(v, c.offset), "bad cron '" + v.value + "' in " + what + ": " + c.error);
       return std::nullopt;
     }
     return c.value;
@@ -197,7 +147,7 @@ class Loader {
     const YamlNode* v = map.find(key);
     if (!v) return nullptr;
     if (!v->is_scalar()) {
-      error(v->is_null() ? key_pos(map, v) : v->pos,
+      error(v->is_null() ? FieldReader::key_pos(map, v) : v->pos,
             "'" + std::string(key) + "' of " + what + " must be an IANA time zone name such as America/Chicago, found " +
                 v->describe());
       return nullptr;
@@ -210,22 +160,13 @@ class Loader {
     return z;
   }
 
-  std::optional<bool> get_bool(const YamlNode& map, const char* key, const std::string& what) {
-    const YamlNode* v = map.find(key);
-    if (!v) return std::nullopt;
-    if (v->is_scalar() && v->plain && (v->value == "true" || v->value == "false")) return v->value == "true";
-    error(v->is_null() ? key_pos(map, v) : v->pos,
-          "'" + std::string(key) + "' of " + what + " must be true or false, found " + v->describe());
-    return std::nullopt;
-  }
-
   // A list of scalar references; a single scalar is reported as a wrong type.
   std::vector<Reference> get_refs(const YamlNode& map, const char* key, const std::string& what) {
     std::vector<Reference> out;
     const YamlNode* v = map.find(key);
     if (!v) return out;
     if (!v->is_sequence()) {
-      error(v->is_null() ? key_pos(map, v) : v->pos,
+      error(v->is_null() ? FieldReader::key_pos(map, v) : v->pos,
             "'" + std::string(key) + "' of " + what + " must be a list, e.g. [a, b], found " + v->describe());
       return out;
     }
@@ -244,7 +185,7 @@ class Loader {
   void load_header(const YamlNode& root) {
     if (const YamlNode* id = root.find("plan")) {
       if (!id->is_scalar()) {
-        error(id->is_null() ? key_pos(root, id) : id->pos, "'plan' must be the plan's id, found " + id->describe());
+        error(id->is_null() ? FieldReader::key_pos(root, id) : id->pos, "'plan' must be the plan's id, found " + id->describe());
       } else if (!valid_id(id->value)) {
         error(id->pos, "invalid plan id '" + id->value + "' (use letters, digits, '_', '.' and '-')");
       } else {
@@ -273,7 +214,7 @@ class Loader {
       if (!valid_id(key.value)) error(key.pos, "invalid calendar name '" + key.value + "' (use letters, digits, '_', '.' and '-')");
       std::string what = "calendar '" + key.value + "'";
       if (body.is_map()) {
-        check_keys(body, kCalendarKeys, what);
+        fields_.check_keys(body, kCalendarKeys, what);
         load_calendar_body(body, what, &cal);
       } else if (!body.is_null()) {
         error(body.pos, what + " must be a map with skip_weekdays and/or skip_dates, found " + body.describe());
@@ -285,7 +226,7 @@ class Loader {
   void load_calendar_body(const YamlNode& body, const std::string& what, Calendar* cal) {
     if (const YamlNode* wd = body.find("skip_weekdays")) {
       if (!wd->is_sequence()) {
-        error(wd->is_null() ? key_pos(body, wd) : wd->pos, "'skip_weekdays' of " + what + " must be a list such as [sat, sun], found " + wd->describe());
+        error(wd->is_null() ? FieldReader::key_pos(body, wd) : wd->pos, "'skip_weekdays' of " + what + " must be a list such as [sat, sun], found " + wd->describe());
       } else {
         for (const YamlNode& item : wd->items) {
           int w = item.is_scalar() ? parse_weekday(item.value) : -1;
@@ -299,7 +240,7 @@ class Loader {
     }
     if (const YamlNode* dates = body.find("skip_dates")) {
       if (!dates->is_sequence()) {
-        error(dates->is_null() ? key_pos(body, dates) : dates->pos, "'skip_dates' of " + what + " must be a list of dates such as [2026-12-25], found " + dates->describe());
+        error(dates->is_null() ? FieldReader::key_pos(body, dates) : dates->pos, "'skip_dates' of " + what + " must be a list of dates such as [2026-12-25], found " + dates->describe());
       } else {
         for (const YamlNode& item : dates->items) {
           std::optional<LocalDays> d = item.is_scalar() ? parse_date(item.value) : std::nullopt;
@@ -362,7 +303,7 @@ class Loader {
   void load_source(const YamlNode& body, const std::string& what, Node* node, PendingNode* pending) {
     std::vector<std::string> allowed = kSourceKeys;
     allowed.push_back("inputs");  // reported below with the reason
-    check_keys(body, allowed, what);
+    fields_.check_keys(body, allowed, what);
     for (const auto& [k, v] : body.entries) {
       if (k.is_scalar() && k.value == "inputs") {
         error(k.pos, what + " cannot have inputs: a source is fed from outside the plan; declare it as a job instead");
@@ -375,30 +316,30 @@ class Loader {
     } else if (schedule->is_scalar() && schedule->value == "stream") {
       node->stream = true;
     } else if (schedule->is_null()) {
-      error(key_pos(body, schedule), "'schedule' of " + what + " has no value (a cron expression, or stream)");
+      error(FieldReader::key_pos(body, schedule), "'schedule' of " + what + " has no value (a cron expression, or stream)");
     } else {
       node->schedule = get_cron(*schedule, "the schedule of " + what);
     }
-    if (auto d = get_duration(body, "lands_after", what)) node->lands_after = *d;
+    if (auto d = fields_.duration(body, "lands_after", what)) node->lands_after = *d;
     if (body.find("data_lag")) {
       if (node->stream) {
-        error(key_pos(body, body.find("data_lag")),
+        error(FieldReader::key_pos(body, body.find("data_lag")),
               "'data_lag' does not apply to the stream source '" + node->id +
                   "' (a stream's data reaches the moment it is sent; use lands_after for its delay)");
-      } else if (auto d = get_duration(body, "data_lag", what)) {
+      } else if (auto d = fields_.duration(body, "data_lag", what)) {
         node->data_lag = *d;
       }
     }
-    if (auto d = get_duration(body, "history", what)) node->history = *d;
+    if (auto d = fields_.duration(body, "history", what)) node->history = *d;
     node->zone = get_zone(body, "timezone", what);
     if (const YamlNode* cal = body.find("calendar")) {
       if (cal->is_scalar()) pending->calendar = Reference{cal->value, cal->pos};
-      else error(cal->is_null() ? key_pos(body, cal) : cal->pos, "'calendar' of " + what + " must be a calendar name, found " + cal->describe());
+      else error(cal->is_null() ? FieldReader::key_pos(body, cal) : cal->pos, "'calendar' of " + what + " must be a calendar name, found " + cal->describe());
     }
   }
 
   void load_derived(const YamlNode& body, const std::string& what, Node* node, PendingNode* pending) {
-    check_keys(body, node->kind == NodeKind::feature ? kFeatureKeys : kJobKeys, what);
+    fields_.check_keys(body, node->kind == NodeKind::feature ? kFeatureKeys : kJobKeys, what);
     if (auto d = get_text(body, "description", what)) node->description = *d;
     if (body.find("inputs")) {
       pending->inputs = get_refs(body, "inputs", what);
@@ -409,15 +350,15 @@ class Loader {
     }
     const YamlNode* trigger = body.find("trigger");
     if (trigger && !(trigger->is_scalar() && trigger->value == "inputs")) {
-      if (trigger->is_null()) error(key_pos(body, trigger), "'trigger' of " + what + " has no value (inputs, or a cron expression)");
+      if (trigger->is_null()) error(FieldReader::key_pos(body, trigger), "'trigger' of " + what + " has no value (inputs, or a cron expression)");
       else node->trigger = get_cron(*trigger, "the trigger of " + what);
     }
     bool cron_trigger = trigger && !(trigger->is_scalar() && trigger->value == "inputs");
-    if (auto d = get_duration(body, "run_time", what)) node->run_time = *d;
+    if (auto d = fields_.duration(body, "run_time", what)) node->run_time = *d;
     for (const char* key : {"timezone", "calendar"}) {
       const YamlNode* v = body.find(key);
       if (v && !cron_trigger) {
-        error(key_pos(body, v), "'" + std::string(key) + "' of " + what +
+        error(FieldReader::key_pos(body, v), "'" + std::string(key) + "' of " + what +
                                     " applies to a cron trigger only; this node runs when its inputs land");
       }
     }
@@ -425,17 +366,17 @@ class Loader {
       node->zone = get_zone(body, "timezone", what);
       if (const YamlNode* cal = body.find("calendar")) {
         if (cal->is_scalar()) pending->calendar = Reference{cal->value, cal->pos};
-        else error(cal->is_null() ? key_pos(body, cal) : cal->pos, "'calendar' of " + what + " must be a calendar name, found " + cal->describe());
+        else error(cal->is_null() ? FieldReader::key_pos(body, cal) : cal->pos, "'calendar' of " + what + " must be a calendar name, found " + cal->describe());
       }
     }
     if (node->kind != NodeKind::feature) return;
     if (body.find("max_age")) {
-      if (auto d = get_duration(body, "max_age", what)) node->max_age = *d;
+      if (auto d = fields_.duration(body, "max_age", what)) node->max_age = *d;
     } else {
       error(node->pos, what + " is missing required key 'max_age' (how old its data may be at scoring time)");
     }
-    if (auto d = get_duration(body, "lookback", what)) node->lookback = *d;
-    if (auto b = get_bool(body, "optional", what)) node->optional = *b;
+    if (auto d = fields_.duration(body, "lookback", what)) node->lookback = *d;
+    if (auto b = fields_.boolean(body, "optional", what)) node->optional = *b;
     for (const Reference& r : get_refs(body, "elements", what)) node->elements.push_back(r.name);
   }
 
@@ -457,7 +398,7 @@ class Loader {
       if (!body.is_map()) {
         error(body.is_null() ? key.pos : body.pos, what + " must be a map with features and runs, found " + body.describe());
       } else {
-        check_keys(body, kModelKeys, what);
+        fields_.check_keys(body, kModelKeys, what);
         if (auto d = get_text(body, "description", what)) model.description = *d;
         model.zone = get_zone(body, "timezone", what);
         if (body.find("features")) {
@@ -479,7 +420,7 @@ class Loader {
       return;
     }
     if (!runs->is_sequence()) {
-      error(runs->is_null() ? key_pos(body, runs) : runs->pos,
+      error(runs->is_null() ? FieldReader::key_pos(body, runs) : runs->pos,
             "'runs' of " + what + " must be a list of {at: \"cron\"}, found " + runs->describe());
       return;
     }
@@ -489,7 +430,7 @@ class Loader {
         error(item.pos, "each run of " + what + " must be a map such as {at: \"0 6 * * *\"}, found " + item.describe());
         continue;
       }
-      check_keys(item, kRunKeys, "a run of " + what);
+      fields_.check_keys(item, kRunKeys, "a run of " + what);
       const YamlNode* at = item.find("at");
       if (!at) {
         error(item.pos, "a run of " + what + " is missing required key 'at'");
@@ -616,6 +557,7 @@ class Loader {
   const std::string& text_;
   const std::string& path_;
   Diagnostics diags_;
+  FieldReader fields_;
   Plan plan_;
   std::unordered_map<std::string, int> id_index_;
   std::vector<PendingNode> pending_nodes_;

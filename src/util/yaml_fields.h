@@ -1,7 +1,7 @@
 #pragma once
 // Reading typed fields out of a YamlNode map, with positioned diagnostics.
 //
-// The catalogue loaders (vocabulary, entries, proposals) share these readers.
+// The loaders (plan, vocabulary, catalogue entries, proposals) share these readers.
 // Each reader reports a wrong type or a bad value at the offending value (or
 // at its key when the value is empty) and returns nullopt; an absent key is
 // not an error here — callers decide what is required.

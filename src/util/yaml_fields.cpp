@@ -1,4 +1,4 @@
-#include "catalog/yaml_fields.h"
+#include "util/yaml_fields.h"
 
 #include <algorithm>
 #include <cerrno>
@@ -131,9 +131,18 @@ std::optional<std::string> FieldReader::choice(const YamlNode& map, const char* 
 std::optional<Duration> FieldReader::duration(const YamlNode& map, const char* key, const std::string& what) {
   const YamlNode* v = map.find(key);
   if (!v) return std::nullopt;
-  if (!v->is_scalar() || looks_numeric(*v)) {
-    error(where(map, v), "'" + std::string(key) + "' of " + what +
-                             " must be an ISO 8601 duration such as PT48H or P30D, found " + v->describe());
+  const std::string field = "'" + std::string(key) + "' of " + what;
+  if (v->is_null()) {
+    error(key_pos(map, v), field + " has no value (expected an ISO 8601 duration such as PT30M)");
+    return std::nullopt;
+  }
+  if (!v->is_scalar()) {
+    error(v->pos, field + " must be an ISO 8601 duration such as PT30M, found " + v->describe());
+    return std::nullopt;
+  }
+  if (looks_numeric(*v)) {
+    error(v->pos, field + " must be an ISO 8601 duration such as PT30M or P1D, found " + v->describe() +
+                      " (a bare number has no unit)");
     return std::nullopt;
   }
   DurationParse d = parse_duration(v->value);
