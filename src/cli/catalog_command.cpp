@@ -70,10 +70,8 @@ std::string parse_search_args(const std::vector<std::string>& args, SearchOption
       auto v = option_value(args, &i, "--outcome");
       if (!v) return "--outcome needs a concept id or text";
       o->outcome = *v;
-    } else if (is_option(a, "--format")) {
-      auto v = option_value(args, &i, "--format");
-      if (!v || (*v != "text" && *v != "json")) return "--format must be text or json";
-      o->format = *v;
+    } else if (std::string error; take_format(args, &i, {"text", "json"}, &o->format, &error)) {
+      if (!error.empty()) return error;
     } else if (is_option(a, "--limit")) {
       std::optional<long> n = whole_number(option_value(args, &i, "--limit"), 1, 10000);
       if (!n) return "--limit needs a whole number from 1 to 10000";

@@ -26,17 +26,10 @@ struct CheckOptions {
 std::string parse_check_args(const std::vector<std::string>& args, CheckOptions* o) {
   for (size_t i = 0; i < args.size(); ++i) {
     const std::string& a = args[i];
-    if (is_option(a, "--from")) {
-      auto v = option_value(args, &i, "--from");
-      if (!v || !(o->from = parse_date(*v))) return "--from needs a date YYYY-MM-DD";
-    } else if (is_option(a, "--days")) {
-      std::optional<long> n = whole_number(option_value(args, &i, "--days"), 1, 3660);
-      if (!n) return "--days needs a whole number from 1 to 3660";
-      o->days = static_cast<int>(*n);
-    } else if (is_option(a, "--format")) {
-      auto v = option_value(args, &i, "--format");
-      if (!v || (*v != "text" && *v != "json")) return "--format must be text or json";
-      o->format = *v;
+    std::string error;
+    if (take_window(args, &i, &o->from, &o->days, &error) ||
+        take_format(args, &i, {"text", "json"}, &o->format, &error)) {
+      if (!error.empty()) return error;
     } else if (is_option(a, "--run")) {
       auto v = option_value(args, &i, "--run");
       if (!v || v->find('@') == std::string::npos) return "--run needs MODEL@YYYY-MM-DDTHH:MM";
@@ -85,10 +78,7 @@ int cmd_check(const std::vector<std::string>& args) {
   if (!loaded) return kExitBadInput;
   const Plan& plan = *loaded;
   if (!o.run.empty()) return explain_run(plan, o);
-  if (!o.from) {
-    Instant now = std::chrono::time_point_cast<Seconds>(std::chrono::system_clock::now());
-    o.from = date::floor<date::days>(plan.zone->to_local(now));
-  }
+  if (!o.from) o.from = today_in(*plan.zone);
   if (o.format == "json") {
     // JSON needs no grouping: compute each run as it is written.
     Evaluation ev = evaluate_lazily(plan, *o.from, o.days);

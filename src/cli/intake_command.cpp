@@ -35,17 +35,10 @@ std::string parse_intake_args(std::vector<std::string> args, IntakeOptions* o) {
   if (std::string problem = take_registries(&args, &o->registries); !problem.empty()) return problem;
   for (size_t i = 0; i < args.size(); ++i) {
     const std::string& a = args[i];
-    if (is_option(a, "--from")) {
-      auto v = option_value(args, &i, "--from");
-      if (!v || !(o->from = parse_date(*v))) return "--from needs a date YYYY-MM-DD";
-    } else if (is_option(a, "--days")) {
-      std::optional<long> n = whole_number(option_value(args, &i, "--days"), 1, 3660);
-      if (!n) return "--days needs a whole number from 1 to 3660";
-      o->days = static_cast<int>(*n);
-    } else if (is_option(a, "--format")) {
-      auto v = option_value(args, &i, "--format");
-      if (!v || (*v != "text" && *v != "json" && *v != "markdown")) return "--format must be text, json or markdown";
-      o->format = *v;
+    std::string error;
+    if (take_window(args, &i, &o->from, &o->days, &error) ||
+        take_format(args, &i, {"text", "json", "markdown"}, &o->format, &error)) {
+      if (!error.empty()) return error;
     } else if (a.starts_with("-")) {
       return "unknown option '" + a + "'";
     } else if (o->proposal_path.empty()) {
@@ -148,10 +141,7 @@ int cmd_intake(const std::vector<std::string>& args) {
   if (!loaded) return report_errors(diags, o.proposal_path, plan_errors);
   const Plan& plan = *loaded->plan;
   const Model& m = plan.models[static_cast<size_t>(model)];
-  if (!o.from) {
-    Instant now = std::chrono::time_point_cast<Seconds>(std::chrono::system_clock::now());
-    o.from = date::floor<date::days>(m.zone->to_local(now));
-  }
+  if (!o.from) o.from = today_in(*m.zone);
   if (run_instants(plan, m, *o.from, o.days).empty()) {
     return usage_error("model '" + m.id + "' has no runs with local dates from " + format_date(*o.from) + " over " +
                            std::to_string(o.days) + " days; widen --days",

@@ -40,12 +40,8 @@ std::string parse_nightly_args(const std::vector<std::string>& args, NightlyOpti
       std::optional<long> n = whole_number(option_value(args, &i, "--window"), 1, 366);
       if (!n) return "--window needs a whole number of days from 1 to 366";
       o->window = static_cast<int>(*n);
-    } else if (is_option(a, "--format")) {
-      auto v = option_value(args, &i, "--format");
-      if (!v || (*v != "text" && *v != "json" && *v != "junit" && *v != "metrics")) {
-        return "--format must be text, json, junit or metrics";
-      }
-      o->format = *v;
+    } else if (std::string error; take_format(args, &i, {"text", "json", "junit", "metrics"}, &o->format, &error)) {
+      if (!error.empty()) return error;
     } else if (a.starts_with("-")) {
       return "unknown option '" + a + "'";
     } else if (o->plan_path.empty()) {
@@ -69,10 +65,7 @@ int cmd_nightly(const std::vector<std::string>& args) {
   std::optional<Plan> loaded = load_plan_or_report(o.plan_path);
   if (!loaded) return kExitBadInput;
   const Plan& plan = *loaded;
-  if (!o.date) {
-    Instant now = std::chrono::time_point_cast<Seconds>(std::chrono::system_clock::now());
-    o.date = date::floor<date::days>(plan.zone->to_local(now));
-  }
+  if (!o.date) o.date = today_in(*plan.zone);
   std::string error;
   std::unique_ptr<HistoryStore> store = HistoryStore::open(o.db_path, HistoryStore::Mode::existing, &error);
   if (!store) {

@@ -7,10 +7,13 @@
 #include <string_view>
 #include <vector>
 
+#include "time/instant.h"
+
 namespace readyby {
 
 struct Command;
 struct Plan;
+class Zone;
 
 /// The value of option `name` at args[*i], written `--name=value` or
 /// `--name value` (then *i advances past the value); nullopt when args[*i] is
@@ -22,6 +25,20 @@ bool is_option(const std::string& arg, std::string_view name);
 
 /// The command table entry named `name` (which must exist).
 const Command& command_named(std::string_view name);
+
+/// Handles args[*i] when it is `--format`: returns true and sets *format, or
+/// sets *error ("--format must be text or json") when the value is not one of
+/// `allowed`. Returns false when args[*i] is another argument.
+bool take_format(const std::vector<std::string>& args, size_t* i, const std::vector<std::string>& allowed,
+                 std::string* format, std::string* error);
+
+/// Handles args[*i] when it is `--from YYYY-MM-DD` or `--days N` (1-3660),
+/// the window of local dates that `check` and `intake` take; like take_format.
+bool take_window(const std::vector<std::string>& args, size_t* i, std::optional<LocalDays>* from, int* days,
+                 std::string* error);
+
+/// Today's local date in `zone`.
+LocalDays today_in(const Zone& zone);
 
 /// Colour only on a terminal, never when NO_COLOR is set or TERM is dumb.
 bool use_colour();

@@ -26,10 +26,7 @@ int cmd_reuse(const std::vector<std::string>& raw) {
   std::string format = "text", proposal_path;
   for (size_t i = 0; problem.empty() && i < args.size(); ++i) {
     const std::string& a = args[i];
-    if (is_option(a, "--format")) {
-      std::string v = option_value(args, &i, "--format").value_or("");
-      if (v != "text" && v != "json") problem = "--format must be text or json";
-      format = v;
+    if (take_format(args, &i, {"text", "json"}, &format, &problem)) {
     } else if (a.starts_with("-")) {
       problem = "unknown option '" + a + "'";
     } else if (proposal_path.empty()) {
