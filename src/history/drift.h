@@ -27,13 +27,6 @@
 
 namespace readyby {
 
-/// The latest occurrence of `schedule` at or before `at` (skipping dates the
-/// calendar excludes), found by searching forward with next_occurrence from
-/// increasingly early starts (1 hour, 2 days, 8 days, 32 days, 367 days and
-/// 1,462 days before `at`). Nullopt when none exists in that span.
-std::optional<Instant> previous_occurrence(const Cron& schedule, const Zone& zone, const Calendar& calendar,
-                                           Instant at);
-
 /// How far ahead the trend is projected against a run's slack.
 inline constexpr int64_t kDriftHorizonSeconds = 30 * kSecondsPerDay;
 

@@ -6,25 +6,6 @@
 
 namespace readyby {
 
-namespace {
-
-// Last occurrence of `cron` at or before `t` (searching up to ~400 days back).
-std::optional<Instant> previous_occurrence(const Cron& cron, const Zone& zone, const Calendar& calendar, Instant t) {
-  for (int64_t window : {int64_t{2}, int64_t{9}, int64_t{40}, int64_t{400}}) {
-    Instant from = t - Seconds(window * kSecondsPerDay);
-    std::optional<Instant> last;
-    std::optional<Instant> o = next_occurrence(cron, zone, calendar, from);
-    while (o && *o <= t) {
-      last = o;
-      o = next_occurrence(cron, zone, calendar, *o + Seconds(1));
-    }
-    if (last) return last;
-  }
-  return std::nullopt;
-}
-
-}  // namespace
-
 std::vector<ChainStep> explain_chain(const Plan& plan, const Evaluation& ev, const FeatureResult& feature,
                                      Instant run_at) {
   std::vector<int> chain = ev.chain(feature);

@@ -297,4 +297,26 @@ std::optional<Instant> next_occurrence(const Cron& c, const Zone& zone, const Ca
   return found;
 }
 
+std::optional<Instant> previous_occurrence(const Cron& schedule, const Zone& zone, const Calendar& calendar,
+                                           Instant at) {
+  static constexpr int64_t kLookbacks[] = {3600,
+                                           2 * kSecondsPerDay,
+                                           8 * kSecondsPerDay,
+                                           32 * kSecondsPerDay,
+                                           367 * kSecondsPerDay,
+                                           1462 * kSecondsPerDay};
+  for (int64_t lookback : kLookbacks) {
+    std::optional<Instant> latest;
+    Instant from = at - Seconds(lookback);
+    while (true) {
+      std::optional<Instant> o = next_occurrence(schedule, zone, calendar, from);
+      if (!o || *o > at) break;
+      latest = o;
+      from = *o + Seconds(1);
+    }
+    if (latest) return latest;
+  }
+  return std::nullopt;
+}
+
 }  // namespace readyby

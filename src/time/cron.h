@@ -62,4 +62,11 @@ inline constexpr int64_t kSearchHorizonSeconds = 1462 * kSecondsPerDay;
 std::optional<Instant> next_occurrence(const Cron& schedule, const Zone& zone, const Calendar& calendar,
                                        Instant from);
 
+/// The latest occurrence of `schedule` at or before `at` (same rules as
+/// next_occurrence), found by searching forward with next_occurrence from
+/// increasingly early starts (1 hour, 2 days, 8 days, 32 days, 367 days and
+/// 1,462 days before `at`). Nullopt when none exists in that span.
+std::optional<Instant> previous_occurrence(const Cron& schedule, const Zone& zone, const Calendar& calendar,
+                                           Instant at);
+
 }  // namespace readyby
