@@ -171,8 +171,9 @@ void FreshnessEngine::apply_trigger(int n, const Profile& m, Profile* out) {
     const int64_t hi = p.upto;
     const int64_t start = std::max(lo, lo_ - 1);  // w below the queried range never matters
     if (p.kind == Kind::never || hi <= start) {
-      if (p.kind == Kind::never) out->push({hi, 0, p.via, Kind::never});
-      else out->push({hi, 0, p.via, Kind::never});  // below the range: placeholder, never queried
+      // Never stays never; a piece wholly below the queried range is never
+      // looked up, so a never placeholder spares its trigger search.
+      out->push({hi, 0, p.via, Kind::never});
       lo = hi;
       continue;
     }

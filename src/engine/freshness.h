@@ -63,7 +63,6 @@ class Profile {
   const std::vector<ProfilePiece>& pieces() const { return pieces_; }
   /// Appends a piece, merging it into the last one when they agree.
   void push(ProfilePiece piece);
-  void clear() { std::vector<ProfilePiece>().swap(pieces_); }
 
  private:
   std::vector<ProfilePiece> pieces_;
