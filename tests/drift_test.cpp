@@ -1,5 +1,7 @@
 #include <catch2/catch.hpp>
 
+#include "plan_fixture.h"
+
 #include "history/drift.h"
 #include "plan/plan_loader.h"
 #include "time/zone.h"
@@ -37,10 +39,7 @@ models:
 )";
 
 Plan load() {
-  PlanLoadResult r = load_plan_text(kPlan, "plan.yaml");
-  INFO(r.rendered);
-  REQUIRE(r.plan);
-  return std::move(*r.plan);
+  return readyby::testing::plan_from_text(kPlan);
 }
 
 Instant at(const char* s) { return *parse_rfc3339(s); }

@@ -1,5 +1,7 @@
 #include <catch2/catch.hpp>
 
+#include "plan_fixture.h"
+
 #include <sstream>
 
 #include "engine/check.h"
@@ -11,10 +13,7 @@ using namespace readyby;
 namespace {
 
 Plan load(const std::string& text) {
-  PlanLoadResult r = load_plan_text(text, "plan.yaml");
-  INFO(r.rendered);
-  REQUIRE(r.plan);
-  return std::move(*r.plan);
+  return readyby::testing::plan_from_text(text);
 }
 
 std::string rfc(std::optional<Instant> t, const Plan& plan) {

@@ -1,5 +1,7 @@
 #include <catch2/catch.hpp>
 
+#include "plan_fixture.h"
+
 #include "history/landing_log.h"
 #include "plan/plan_loader.h"
 #include "time/zone.h"
@@ -30,9 +32,7 @@ models:
 )";
 
 Plan tiny_plan() {
-  PlanLoadResult r = load_plan_text(kPlan, "plan.yaml");
-  REQUIRE(r.plan);
-  return std::move(*r.plan);
+  return readyby::testing::plan_from_text(kPlan);
 }
 
 std::vector<std::string> errors_of(const LandingLog& log) {

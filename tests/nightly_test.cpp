@@ -5,6 +5,8 @@
 
 #include <catch2/catch.hpp>
 
+#include "plan_fixture.h"
+
 #include <regex>
 #include <set>
 #include <sstream>
@@ -56,10 +58,7 @@ models:
 )";
 
 Plan load(const char* text) {
-  PlanLoadResult r = load_plan_text(text, "plan.yaml");
-  INFO(r.rendered);
-  REQUIRE(r.plan);
-  return std::move(*r.plan);
+  return readyby::testing::plan_from_text(text);
 }
 
 Instant at(const char* rfc3339) { return *parse_rfc3339(rfc3339); }

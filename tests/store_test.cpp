@@ -1,5 +1,7 @@
 #include <catch2/catch.hpp>
 
+#include "plan_fixture.h"
+
 #include <sqlite3.h>
 
 #include <chrono>
@@ -34,9 +36,7 @@ models:
 )";
 
 Plan load() {
-  PlanLoadResult r = load_plan_text(kPlan, "plan.yaml");
-  REQUIRE(r.plan);
-  return std::move(*r.plan);
+  return readyby::testing::plan_from_text(kPlan);
 }
 
 // `days` daily deliveries of feed_a starting 2026-01-01, as CSV.
