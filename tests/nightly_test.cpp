@@ -1,13 +1,9 @@
-// GCC 12 with -fsanitize=address reports -Wmaybe-uninitialized inside
-// libstdc++'s <regex> (a false positive in std::function); the OpenMetrics
-// grammar check below uses std::regex, so the warning is silenced here only.
-#pragma GCC diagnostic ignored "-Wmaybe-uninitialized"
-
 #include <catch2/catch.hpp>
 
 #include "plan_fixture.h"
 
-#include <regex>
+#include <re2/re2.h>
+
 #include <set>
 #include <sstream>
 
@@ -233,10 +229,11 @@ std::vector<std::string> openmetrics_problems(const std::string& text) {
   const std::string labels = "\\{(?:[a-zA-Z_][a-zA-Z0-9_]*=" + label_value + "(?:,[a-zA-Z_][a-zA-Z0-9_]*=" +
                              label_value + ")*)?\\}";
   const std::string number = R"([-+]?(?:[0-9]+(?:\.[0-9]*)?(?:[eE][-+]?[0-9]+)?|\.[0-9]+|Inf|NaN))";
-  const std::regex type_line("# TYPE (" + name + ") (gauge|counter|info|stateset|unknown)");
-  const std::regex unit_line("# UNIT (" + name + ") ([a-zA-Z0-9_:]+)");
-  const std::regex help_line("# HELP (" + name + ") (?:[^\\\\\n]|\\\\\\\\|\\\\n|\\\\\")*");
-  const std::regex sample_line("(" + name + ")(?:" + labels + ")? " + number);
+  const RE2 type_line("# TYPE (" + name + ") (gauge|counter|info|stateset|unknown)");
+  const RE2 unit_line("# UNIT (" + name + ") ([a-zA-Z0-9_:]+)");
+  const RE2 help_line("# HELP (" + name + ") (?:[^\\\\\n]|\\\\\\\\|\\\\n|\\\\\")*");
+  const RE2 sample_line("(" + name + ")(?:" + labels + ")? " + number);
+  for (const RE2* re : {&type_line, &unit_line, &help_line, &sample_line}) REQUIRE(re->ok());
   if (text.empty() || text.back() != '\n') problems.push_back("does not end with a newline");
   std::istringstream in(text);
   std::string line, current;
@@ -246,20 +243,20 @@ std::vector<std::string> openmetrics_problems(const std::string& text) {
   while (std::getline(in, line)) {
     ++number_of_line;
     std::string where = "line " + std::to_string(number_of_line) + ": ";
-    std::smatch m;
+    std::string family, unit;
     if (eof) problems.push_back(where + "text after # EOF");
     if (line == "# EOF") {
       eof = true;
-    } else if (std::regex_match(line, m, type_line)) {
-      if (!families.insert(m[1]).second) problems.push_back(where + "family declared twice: " + m[1].str());
-      current = m[1];
-    } else if (std::regex_match(line, m, unit_line)) {
-      if (m[1] != current) problems.push_back(where + "UNIT for another family");
-      if (!current.ends_with("_" + m[2].str())) problems.push_back(where + "name lacks the unit suffix");
-    } else if (std::regex_match(line, m, help_line)) {
-      if (m[1] != current) problems.push_back(where + "HELP for another family");
-    } else if (std::regex_match(line, m, sample_line)) {
-      if (m[1] != current) problems.push_back(where + "sample outside its family: " + m[1].str());
+    } else if (RE2::FullMatch(line, type_line, &family)) {
+      if (!families.insert(family).second) problems.push_back(where + "family declared twice: " + family);
+      current = family;
+    } else if (RE2::FullMatch(line, unit_line, &family, &unit)) {
+      if (family != current) problems.push_back(where + "UNIT for another family");
+      if (!current.ends_with("_" + unit)) problems.push_back(where + "name lacks the unit suffix");
+    } else if (RE2::FullMatch(line, help_line, &family)) {
+      if (family != current) problems.push_back(where + "HELP for another family");
+    } else if (RE2::FullMatch(line, sample_line, &family)) {
+      if (family != current) problems.push_back(where + "sample outside its family: " + family);
     } else {
       problems.push_back(where + "not OpenMetrics: " + line);
     }
