@@ -82,15 +82,6 @@ class Loader {
 
   void load() {
     plan_.path = path_;
-    size_t bad = invalid_utf8_offset(text_);
-    if (bad != std::string::npos) {
-      int line = 1 + static_cast<int>(std::count(text_.begin(), text_.begin() + static_cast<long>(bad), '\n'));
-      size_t line_start = text_.rfind('\n', bad == 0 ? 0 : bad - 1);
-      int col = static_cast<int>(bad - (line_start == std::string::npos || bad == 0 ? 0 : line_start + 1)) + 1;
-      if (line_start == std::string::npos) col = static_cast<int>(bad) + 1;
-      error({line, col}, "the file is not valid UTF-8 (bad byte at this position); save it as UTF-8");
-      return;
-    }
     YamlNode root;
     if (!parse_yaml(path_, text_, &root, &diags_)) return;
     if (root.is_null()) {
