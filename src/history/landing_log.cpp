@@ -28,7 +28,7 @@ const char* to_string(LogField f) {
 std::string LogError::str() const {
   std::string out = path;
   if (line > 0) out += ':' + std::to_string(line);
-  return out + ": error: " + message;
+  return printable(out + ": error: " + message);
 }
 
 ColumnMap::ColumnMap() {
@@ -86,6 +86,7 @@ struct Validator {
   const Plan& plan;
   std::unordered_map<std::string_view, int> node_index;
   std::vector<std::string> node_ids;
+  std::unordered_map<std::string, std::string> suggestions;  // unknown node -> its did-you-mean
   LandingLog* out;
 
   Validator(const std::string& p, const Plan& pl, LandingLog* o) : path(p), plan(pl), out(o) {
@@ -121,7 +122,11 @@ struct Validator {
     } else if (auto it = node_index.find(*node); it != node_index.end()) {
       r.node = it->second;
     } else {
-      error(line, "unknown node '" + *node + "'" + did_you_mean(*node, node_ids) + " in plan " + plan.id);
+      // One suggestion per distinct unknown name: a log of 100,000 rows of a
+      // node the plan lacks must not search the plan's ids 100,000 times.
+      auto [hint, fresh] = suggestions.try_emplace(*node);
+      if (fresh) hint->second = did_you_mean(*node, node_ids);
+      error(line, "unknown node '" + *node + "'" + hint->second + " in plan " + plan.id);
     }
     std::optional<Instant> landed = instant(line, raw, LogField::landed_at, true);
     std::optional<Instant> through = instant(line, raw, LogField::data_through, true);
@@ -434,6 +439,9 @@ LandingLog parse_landing_log(std::string_view text, const std::string& path, con
                              const ColumnMap& map) {
   LandingLog out;
   Validator v(path, plan, &out);
+  // A UTF-8 byte order mark, as spreadsheet exports write it, is not part of
+  // the first column's name.
+  if (text.substr(0, 3) == "\xEF\xBB\xBF") text.remove_prefix(3);
   size_t bad_utf8 = invalid_utf8_offset(text);
   if (bad_utf8 != std::string_view::npos) {
     int line = 1 + static_cast<int>(std::count(text.begin(), text.begin() + static_cast<std::ptrdiff_t>(bad_utf8), '\n'));

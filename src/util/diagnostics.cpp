@@ -3,6 +3,8 @@
 #include <algorithm>
 #include <tuple>
 
+#include "util/text.h"
+
 namespace readyby {
 
 std::string Diagnostic::str() const {
@@ -12,7 +14,7 @@ std::string Diagnostic::str() const {
   }
   out += ": error: ";
   out += message;
-  return out;
+  return printable(out);
 }
 
 void Diagnostics::error(const std::string& path, SourcePos pos, std::string message) {
@@ -62,7 +64,7 @@ std::string Diagnostics::render() const {
       std::string_view line = source_line(text, d.pos.line);
       if (line.empty() && d.pos.line > 1) break;
       out += "  ";
-      out += line;
+      out += printable(line);
       out += "\n  ";
       // Keep tabs so the caret lines up under the same column.
       for (int i = 1; i < d.pos.column && static_cast<size_t>(i - 1) < line.size(); ++i) {
