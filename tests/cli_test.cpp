@@ -4,6 +4,7 @@
 #include <cstdio>
 #include <cstdlib>
 #include <fstream>
+#include <iterator>
 #include <string>
 #include "run_binary.h"
 
@@ -55,4 +56,93 @@ TEST_CASE("check --run explains one run step by step") {
   CHECK(json.out.find(R"({"node": "census_snapshot", "kind": "job", "ready_at": "2026-03-08T04:45:00-05:00")") !=
         std::string::npos);
   CHECK(run("check " + kDemo + " --run nobody@2026-03-08T06:30").status == 2);
+}
+
+namespace {
+
+// stdout and stderr apart.
+struct Streams {
+  int status = -1;
+  std::string out, err;
+};
+
+Streams run_apart(const std::string& args) {
+  const char* tmp = std::getenv("TMPDIR") ? std::getenv("TMPDIR") : "/tmp";
+  const std::string err_path = std::string(tmp) + "/readyby_cli_stderr.txt";
+  Outcome o = readyby::testing::run_shell(std::string("NO_COLOR=1 ") + READYBY_BINARY + " " + args + " 2>" + err_path);
+  Streams s{o.status, o.out, ""};
+  std::ifstream in(err_path);
+  s.err.assign(std::istreambuf_iterator<char>(in), std::istreambuf_iterator<char>());
+  std::remove(err_path.c_str());
+  return s;
+}
+
+}  // namespace
+
+TEST_CASE("readyby with no command prints the overview to stderr and exits 2; help --help works") {
+  Streams bare = run_apart("");
+  CHECK(bare.status == 2);
+  CHECK(bare.out.empty());
+  CHECK(bare.err.find("usage: readyby COMMAND [ARGS]") != std::string::npos);
+  Streams help = run_apart("help --help");
+  CHECK(help.status == 0);
+  CHECK(help.out == "usage: readyby help [COMMAND]\n");
+  Streams nosuch = run_apart("help chek");
+  CHECK(nosuch.status == 2);
+  CHECK(nosuch.err.find("readyby: no command 'chek' (did you mean 'check'?)") != std::string::npos);
+}
+
+TEST_CASE("unknown options are named, with the nearest option of the command") {
+  struct Case {
+    std::string args, message;
+  };
+  const Case cases[] = {
+      {"check " + kDemo + " --frmo 2026-03-01", "readyby: unknown option '--frmo' (did you mean '--from'?)\n"},
+      {"check " + kDemo + " --fromat=json", "readyby: unknown option '--fromat=json' (did you mean '--format'?)\n"},
+      {"validate " + kDemo + " --format json", "readyby: unknown option '--format'\n"},
+      {"validate --hlep " + kDemo, "readyby: unknown option '--hlep' (did you mean '--help'?)\n"},
+      {"nightly " + kDemo + " --windw 3", "readyby: unknown option '--windw' (did you mean '--window'?)\n"},
+      {"record a.csv --plan " + kDemo + " --mpa x=y", "readyby: unknown option '--mpa' (did you mean '--map'?)\n"},
+      {"intake p.yaml --dyas 3", "readyby: unknown option '--dyas' (did you mean '--days'?)\n"},
+      {"catalog search sepsis --limt 3", "readyby: unknown option '--limt' (did you mean '--limit'?)\n"},
+      {"catalog show --registy x lace", "readyby: unknown option '--registy' (did you mean '--registry'?)\n"},
+      {"reuse p.yaml --xyz", "readyby: unknown option '--xyz'\n"},
+  };
+  for (const Case& c : cases) {
+    INFO(c.args);
+    Streams s = run_apart(c.args);
+    CHECK(s.status == 2);
+    CHECK(s.out.empty());
+    CHECK(s.err.substr(0, s.err.find('\n') + 1) == c.message);
+  }
+  // Two PLAN files are still "exactly one".
+  CHECK(run_apart("validate " + kDemo + " " + kDemo).err.starts_with("readyby: validate takes exactly one PLAN file"));
+}
+
+TEST_CASE("check --run with an unknown model lists the plan's models") {
+  Streams s = run_apart("check " + kDemo + " --run nosuch@2026-03-08T06:30");
+  CHECK(s.status == 2);
+  CHECK(s.err.starts_with("readyby: no model 'nosuch' in " + kDemo + "; its models: readmit_risk, discharge_delay\n"));
+  Streams typo = run_apart("check " + kDemo + " --run readmit_rsk@2026-03-08T06:30");
+  CHECK(typo.err.starts_with("readyby: no model 'readmit_rsk' in " + kDemo +
+                             " (did you mean 'readmit_risk'?); its models: readmit_risk, discharge_delay\n"));
+}
+
+TEST_CASE("validate: a legacy zone is a warning, the plan is valid, exit 0") {
+  const char* tmp = std::getenv("TMPDIR") ? std::getenv("TMPDIR") : "/tmp";
+  const std::string path = std::string(tmp) + "/readyby_cli_est.yaml";
+  std::ofstream(path) << "plan: x\ntimezone: EST\nsources:\n  s:\n    schedule: \"0 1 * * *\"\nfeatures:\n"
+                         "  f:\n    inputs: [s]\n    max_age: P1D\nmodels:\n  m:\n    features: [f]\n    runs:\n"
+                         "      - at: \"0 6 * * *\"\n";
+  Streams s = run_apart("validate " + path);
+  CHECK(s.status == 0);
+  CHECK(s.out == path + ": plan 'x' is valid: 1 sources, 0 jobs, 1 features, 1 models (1 warning)\n");
+  CHECK(s.err.starts_with(path + ":2:11: warning: 'EST' is a legacy time zone name kept only for compatibility: "
+                                 "UTC-05:00 all year, with no daylight saving; for US Eastern time use "
+                                 "America/New_York, for UTC-05:00 all year America/Panama\n  timezone: EST\n"));
+  // Commands that load the plan show the warning too, and still run.
+  Streams check = run_apart("check " + path + " --from 2026-03-01 --days 1");
+  CHECK(check.status == 0);
+  CHECK(check.err.find("warning: 'EST' is a legacy time zone name") != std::string::npos);
+  std::remove(path.c_str());
 }

@@ -104,27 +104,38 @@ int usage_error(const std::string& message, const char* usage) {
 
 namespace {
 
+void print_overview(FILE* out) {
+  std::fprintf(out, "%s: is the data there in time, and has a published score already covered it?\n\n", kVersion);
+  std::fprintf(out, "usage: readyby COMMAND [ARGS]\n\ncommands:\n");
+  for (const Command& c : command_table()) std::fprintf(out, "  %-10s %s\n", c.name, c.summary);
+  std::fprintf(out, "\n'readyby COMMAND --help' shows a command's options.\n");
+}
+
 int cmd_help(const std::vector<std::string>& args) {
+  if (wants_help(args, kHelpUsage)) return kExitOk;
+  if (args.size() > 1) return usage_error("help takes at most one COMMAND", kHelpUsage);
   if (!args.empty()) {
+    std::vector<std::string> names;
     for (const Command& c : command_table()) {
       if (args[0] == c.name) {
         std::fputs(c.usage, stdout);
         return kExitOk;
       }
+      names.emplace_back(c.name);
     }
-    return usage_error("no command '" + args[0] + "'", kHelpUsage);
+    return usage_error("no command '" + args[0] + "'" + did_you_mean(args[0], names), kHelpUsage);
   }
-  std::printf("%s: is the data there in time, and has a published score already covered it?\n\n", kVersion);
-  std::printf("usage: readyby COMMAND [ARGS]\n\ncommands:\n");
-  for (const Command& c : command_table()) std::printf("  %-10s %s\n", c.name, c.summary);
-  std::printf("\n'readyby COMMAND --help' shows a command's options.\n");
+  print_overview(stdout);
   return kExitOk;
 }
 
 }  // namespace
 
 int run_cli(const std::vector<std::string>& args) {
-  if (args.empty()) return cmd_help({});
+  if (args.empty()) {  // a command is required: the overview, as a usage error
+    print_overview(stderr);
+    return kExitBadInput;
+  }
   const std::string& name = args[0];
   if (name == "--version" || name == "version") {
     std::printf("%s\n", kVersion);

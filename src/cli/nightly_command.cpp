@@ -43,7 +43,7 @@ std::string parse_nightly_args(const std::vector<std::string>& args, NightlyOpti
     } else if (std::string error; take_format(args, &i, {"text", "json", "junit", "metrics"}, &o->format, &error)) {
       if (!error.empty()) return error;
     } else if (a.starts_with("-")) {
-      return "unknown option '" + a + "'";
+      return unknown_option(a, nightly_command().usage);
     } else if (o->plan_path.empty()) {
       o->plan_path = a;
     } else {
