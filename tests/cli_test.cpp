@@ -102,6 +102,8 @@ TEST_CASE("unknown options are named, with the nearest option of the command") {
       {"validate " + kDemo + " --format json", "readyby: unknown option '--format'\n"},
       {"validate --hlep " + kDemo, "readyby: unknown option '--hlep' (did you mean '--help'?)\n"},
       {"nightly " + kDemo + " --windw 3", "readyby: unknown option '--windw' (did you mean '--window'?)\n"},
+      {"record a.csv --plan " + kDemo + " --mapstatus A=ok",
+       "readyby: unknown option '--mapstatus' (did you mean '--map-status'?)\n"},
       {"record a.csv --plan " + kDemo + " --mpa x=y", "readyby: unknown option '--mpa' (did you mean '--map'?)\n"},
       {"intake p.yaml --dyas 3", "readyby: unknown option '--dyas' (did you mean '--days'?)\n"},
       {"catalog search sepsis --limt 3", "readyby: unknown option '--limt' (did you mean '--limit'?)\n"},
@@ -145,4 +147,34 @@ TEST_CASE("validate: a legacy zone is a warning, the plan is valid, exit 0") {
   CHECK(check.status == 0);
   CHECK(check.err.find("warning: 'EST' is a legacy time zone name") != std::string::npos);
   std::remove(path.c_str());
+}
+
+TEST_CASE("record: a log from another system, with its own columns and status values") {
+  const char* tmp = std::getenv("TMPDIR") ? std::getenv("TMPDIR") : "/tmp";
+  const std::string log = std::string(tmp) + "/readyby_cli_export.csv";
+  const std::string db = std::string(tmp) + "/readyby_cli_export.db";
+  std::remove(db.c_str());
+  std::ofstream(log) << "task,load_end_ts,watermark,state\n"
+                        "lab_results,2026-03-02T02:51:00-06:00,2026-03-02T00:00:00-06:00,SUCCESS\n"
+                        "lab_results,2026-03-03T02:40:00-06:00,2026-03-03T00:00:00-06:00,RUNNING\n"
+                        "lab_results,2026-03-03T02:55:00-06:00,2026-03-03T00:00:00-06:00,ERROR\n";
+  // Without --map: the missing columns, the columns the file has and --map.
+  Streams bare = run_apart("record " + log + " --plan " + kDemo + " --db " + db);
+  CHECK(bare.status == 2);
+  CHECK(bare.err.starts_with(log + ":1: error: missing column 'node' (the header has: task, load_end_ts, watermark, "
+                                   "state); if the log names it differently, map it with --map node=COLUMN\n"));
+  // Mapped, but SUCCESS is not a status readyby knows.
+  const std::string map = " --map node=task,landed_at=load_end_ts,data_through=watermark,status=state";
+  Streams unmapped = run_apart("record " + log + " --plan " + kDemo + " --db " + db + map);
+  CHECK(unmapped.status == 2);
+  CHECK(unmapped.err.starts_with(log + ":2: error: bad status 'SUCCESS': expected ok or failed; map the log's own "
+                                       "values with --map-status, e.g. --map-status 'SUCCESS=ok'\n"));
+  Streams ok = run_apart("record " + log + " --plan " + kDemo + " --db " + db + map +
+                         " --map-status SUCCESS=ok,ERROR=failed,RUNNING=skip");
+  CHECK(ok.status == 0);
+  CHECK(ok.out.starts_with(log + ": 2 rows, 2 new (1 skipped by --map-status)\n"));
+  std::remove(log.c_str());
+  std::remove(db.c_str());
+  std::remove((db + "-wal").c_str());
+  std::remove((db + "-shm").c_str());
 }

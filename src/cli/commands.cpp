@@ -28,10 +28,13 @@ const char kCheckUsage[] =
 
 const char kRecordUsage[] =
     "usage: readyby record LOG... --plan PLAN [--db FILE] [--map FIELD=COLUMN,...]\n"
+    "                      [--map-status VALUE=ok|failed|skip,...]\n"
     "  Records landing logs (CSV with a header row, or JSON Lines) into the history\n"
     "  database (default readyby.db). Columns: node, landed_at, data_through, and\n"
     "  optionally scheduled_at, rows, status (ok|failed). --map renames columns,\n"
-    "  e.g. --map landed_at=load_end_ts,data_through=watermark. Every file is checked\n"
+    "  e.g. --map landed_at=load_end_ts,data_through=watermark; --map-status reads the\n"
+    "  log's own status values, e.g. --map-status SUCCESS=ok,ERROR=failed,RUNNING=skip\n"
+    "  (skip: the row is not a delivery and is left out). Every file is checked\n"
     "  first; any bad row rejects the whole command with PATH:LINE errors and nothing\n"
     "  is written. Each file is one transaction; recording a file again adds nothing.\n"
     "  Exit 0 when recorded, 2 on bad input.\n";
