@@ -3,8 +3,10 @@
 #include <array>
 #include <cstdio>
 #include <cstdlib>
+#include <filesystem>
 #include <fstream>
 #include <iterator>
+#include <sstream>
 #include <string>
 #include "run_binary.h"
 
@@ -177,4 +179,42 @@ TEST_CASE("record: a log from another system, with its own columns and status va
   std::remove(db.c_str());
   std::remove((db + "-wal").c_str());
   std::remove((db + "-shm").c_str());
+}
+
+TEST_CASE("intake: long entry names and ids keep the candidate columns aligned") {
+  namespace fs = std::filesystem;
+  const fs::path dir = fs::path(std::getenv("TMPDIR") ? std::getenv("TMPDIR") : "/tmp") / "readyby_cli_long_names";
+  fs::remove_all(dir);
+  fs::create_directories(dir / "registry" / "local");
+  std::ofstream(dir / "registry" / "local" / "lvmc-readmit-30d-discharge-cohort-with-a-very-long-identifier.yaml")
+      << "id: lvmc-readmit-30d-discharge-cohort-with-a-very-long-identifier\n"
+         "name: \"LVMC 30-day unplanned readmission model for adult medical and surgical inpatients\"\n"
+         "kind: local\n"
+         "summary: \"Larkspur Valley Medical Centre (fictional example): a model with a long name.\"\n"
+         "outcome:\n  concept: readmission-30d\n"
+         "horizon: P30D\npopulation:\n  age_min: 18\nsettings: [ward]\ntime_point: discharge\n"
+         "inputs:\n  - element: util.length_of_stay_days\n    label: \"Length of stay\"\n"
+         "owner: \"Analytics team\"\ngo_live: 2024-01-15\nstatus: live\nprovenance: from-memory\n";
+  Outcome o = readyby::testing::run_shell(
+      "NO_COLOR=1 READYBY_CACHE_DIR='" + (dir / "cache").string() + "' READYBY_REGISTRY='" + READYBY_SOURCE_DIR +
+      "/registries' " + READYBY_BINARY + " intake " + READYBY_SOURCE_DIR +
+      "/pipelines/readmit-30d.proposal.yaml --from 2026-03-09 --days 7 --registry '" + (dir / "registry").string() +
+      "' 2>&1");
+  INFO(o.out);
+  // The candidate lines: "  #N NAME [ID] COVERAGE KIND", each column starting where the others do.
+  std::vector<std::string> lines;
+  std::istringstream in(o.out);
+  for (std::string line; std::getline(in, line);) {
+    if (line.starts_with("  #")) lines.push_back(line);
+  }
+  REQUIRE(lines.size() >= 3);
+  bool long_one = false;
+  for (const std::string& line : lines) {
+    INFO(line);
+    long_one = long_one || line.find("very-long-identifier") != std::string::npos;
+    CHECK(line.find('[') == lines[0].find('['));
+    CHECK(line.find("covers") == lines[0].find("covers"));
+  }
+  CHECK(long_one);
+  fs::remove_all(dir);
 }
