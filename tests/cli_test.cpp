@@ -218,3 +218,27 @@ TEST_CASE("intake: long entry names and ids keep the candidate columns aligned")
   CHECK(long_one);
   fs::remove_all(dir);
 }
+
+TEST_CASE("nightly: silent nodes are warned about on stderr for machine formats; metrics say when they were made") {
+  namespace fs = std::filesystem;
+  const fs::path dir = fs::path(std::getenv("TMPDIR") ? std::getenv("TMPDIR") : "/tmp") / "readyby_cli_nightly";
+  fs::remove_all(dir);
+  fs::create_directories(dir);
+  const std::string db = (dir / "h.db").string();
+  const std::string logs = std::string(READYBY_SOURCE_DIR) + "/pipelines/landing-logs/";
+  REQUIRE(run_apart("record " + logs + "feeds-2026-01.csv " + logs + "feeds-2026-02.csv " + logs +
+                    "feeds-2026-03.csv --plan " + kDemo + " --db " + db)
+              .status == 0);
+  // The demo logs end on 2026-03-03: five days later every logged feed is silent.
+  Streams metrics = run_apart("nightly " + kDemo + " --db " + db + " --date 2026-03-08 --format metrics");
+  CHECK(metrics.status == 1);
+  CHECK(metrics.err.find("readyby: warning: no landing of lab_results recorded for 3 days (last 2026-03-03 ") !=
+        std::string::npos);
+  CHECK(metrics.out.find("readyby_node_silent{plan=\"larkspur\",node=\"lab_results\"} 1\n") != std::string::npos);
+  CHECK(metrics.out.find("readyby_nightly_last_evaluated_timestamp_seconds{plan=\"larkspur\"} ") != std::string::npos);
+  // On the last day of the logs nothing is silent.
+  Streams text = run_apart("nightly " + kDemo + " --db " + db + " --date 2026-03-03");
+  CHECK(text.out.find("warning: no landing") == std::string::npos);
+  CHECK(text.err.empty());
+  fs::remove_all(dir);
+}
