@@ -33,6 +33,8 @@ TEST_CASE("unknown zone names: the zone of the region, a close spelling, or noth
       {"America/Chigaco", "America/Chicago", ""},
       {"Amercia/Denver", "America/Denver", ""},
       {"Etc/UTX", "Etc/UTC", ""},
+      {"ESTT", "", ""},  // one step from the legacy EST, which is not suggested for a typo
+      {"est", "EST", ""},  // the name itself, in another case: loading it then warns
       // Far from every name relative to its length: nothing.
       {"America/Springfield", "", ""},
       {"Mars/Olympus_Mons", "", ""},

@@ -125,6 +125,7 @@ ZoneSuggestion suggest_zone(std::string_view name, const std::vector<std::string
   for (const std::string& k : known) {
     const size_t gap = k.size() > name.size() ? k.size() - name.size() : name.size() - k.size();
     if (gap > limit) continue;  // the distance is at least the difference in length
+    if (!legacy_zone_advice(k).empty()) continue;  // never suggest a legacy name for a typo
     const size_t d = edit_distance(name, k);
     if (d < best) best = d, found = k;
   }

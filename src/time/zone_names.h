@@ -11,7 +11,8 @@
 //   2. a small table of well-known cities that are not zone names, each with
 //      the zone of its region (common practice, from memory);
 //   3. the nearest known name by edit distance, only when the distance is
-//      small relative to the name's length (at most max(1, |name| / 6)).
+//      small relative to the name's length (at most max(1, |name| / 6)),
+//      and never a legacy name (see legacy_zone_advice).
 // Otherwise nothing is suggested.
 
 #include <string>
