@@ -4,7 +4,7 @@ tests/report_browser_test.cpp and tests/report_page_test.cpp. Prints one fact
 a line, sorted, so the C++ tests compare plain lines.
 
   report_dom.py dom FILE          the page (or chromium's --dump-dom of it):
-                                    cell MODEL STATUS COUNT    run cells of the calendars
+                                    cell MODEL STATUS COUNT    run cells of each model's calendar
                                     timeline STATUS MODEL DESCRIPTION
                                     chart SOURCE               landing-offset charts
   report_dom.py check-json FILE   `check --format json`: cell MODEL STATUS COUNT
@@ -26,11 +26,16 @@ def dom_facts(path):
         doc = html5lib.parse(f, treebuilder="etree", namespaceHTMLElements=False)
     cells = collections.Counter()
     lines = []
+    def tag_of(el):
+        return el.tag.split("}")[-1] if isinstance(el.tag, str) else ""
+
     for el in doc.iter():
-        tag = el.tag.split("}")[-1] if isinstance(el.tag, str) else ""
+        tag = tag_of(el)
         cls = (el.get("class") or "").split()
-        if tag == "g" and "run" in cls:
-            cells[(el.get("data-model"), el.get("data-status"))] += 1
+        if tag == "svg" and "calendar" in cls:
+            for run in el.iter():
+                if tag_of(run) == "g" and "run" in (run.get("class") or "").split():
+                    cells[(el.get("data-model"), run.get("data-status"))] += 1
         elif tag == "figure" and "timeline" in cls and el.get("data-pattern") is not None:
             lines.append("timeline %s %s %s" % (el.get("data-status"), el.get("data-model"), el.get("data-pattern")))
         elif tag == "figure" and "offsets" in cls:

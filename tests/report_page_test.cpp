@@ -121,10 +121,13 @@ TEST_CASE("calendar: one cell per run, counted by status as the evaluation count
     for (const RunResult& run : r->ev.runs) {
       if (run.model == m.model) n[static_cast<int>(run.status)]++;
     }
+    size_t at = r->html.find("<svg class=\"calendar\" data-model=\"" + id + "\"");
+    REQUIRE(at != std::string::npos);
+    std::string calendar = r->html.substr(at, r->html.find("</svg>", at) - at);
     const RunStatus all[] = {RunStatus::ok, RunStatus::degraded, RunStatus::fail};
     for (RunStatus s : all) {
       INFO(id << " " << to_string(s));
-      CHECK(count_of(r->html, "<g class=\"run\" data-model=\"" + id + "\" data-status=\"" + to_string(s) + "\"") ==
+      CHECK(count_of(calendar, "<g class=\"run\" data-status=\"" + std::string(to_string(s)) + "\"") ==
             n[static_cast<int>(s)]);
       seen[static_cast<int>(s)] += n[static_cast<int>(s)];
     }

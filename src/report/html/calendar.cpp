@@ -11,7 +11,9 @@ namespace {
 
 constexpr double kCellW = 98, kHeadH = 20, kPad = 2;
 // Not-fresh features named in a run's hover text; the rest are counted.
-constexpr size_t kTitleFeatures = 3;
+constexpr size_t kTitleFeatures = 2;
+// Feeds named as off on a day; the rest are counted.
+constexpr size_t kNamedFeeds = 4;
 constexpr const char* kWeekdays[] = {"Mon", "Tue", "Wed", "Thu", "Fri", "Sat", "Sun"};
 
 // Column of a local date: 0 = Monday .. 6 = Sunday.
@@ -34,7 +36,7 @@ std::string day_counts(const Evaluation& ev, const DayFacts& day) {
 
 std::string run_title(const Plan& plan, const Evaluation& ev, const Model& model, size_t index) {
   const RunResult& run = ev.runs[index];
-  std::string t = model.id + " " + format_local(model.zone->to_local(run.at)) + ": " + status_word(run.status);
+  std::string t = format_local(model.zone->to_local(run.at)) + " " + status_word(run.status);
   std::string missing;
   size_t named = 0, more = 0;
   for (const FeatureResult& f : run.features) {
@@ -48,12 +50,21 @@ std::string run_title(const Plan& plan, const Evaluation& ev, const Model& model
                (f.status == FeatureStatus::never ? "never fresh" : "late by " + human_duration(-f.slack_seconds));
   }
   if (more) missing += " and " + std::to_string(more) + " more";
-  if (!missing.empty()) t += " — " + missing;
+  if (!missing.empty()) t += ": " + missing;
   return t;
 }
 
 std::string truncate(const std::string& s, size_t chars) {
   return s.size() <= chars ? s : s.substr(0, chars - 1) + "…";
+}
+
+std::string feed_names(const Plan& plan, const std::vector<int>& feeds) {
+  std::string out;
+  for (size_t i = 0; i < feeds.size() && i < kNamedFeeds; ++i) {
+    out += (out.empty() ? "" : ", ") + plan.nodes[static_cast<size_t>(feeds[i])].id;
+  }
+  if (feeds.size() > kNamedFeeds) out += " and " + std::to_string(feeds.size() - kNamedFeeds) + " more";
+  return out;
 }
 
 struct Layout {
@@ -82,10 +93,7 @@ void write_day(std::string& out, const PageFacts& page, const Model& model, cons
                       std::to_string(day.runs.size()) + (day.runs.size() == 1 ? " run" : " runs");
   for (const std::string& c : day.clock_changes) title += "; " + c;
   for (const std::string& c : day.runs_skipped) title += "; runs skipped by calendar " + c;
-  if (!day.feeds_off.empty()) {
-    title += "; no delivery from";
-    for (int s : day.feeds_off) title += " " + plan.nodes[static_cast<size_t>(s)].id;
-  }
+  if (!day.feeds_off.empty()) title += "; no delivery from " + feed_names(plan, day.feeds_off);
   out += "<g class=\"day\" data-date=\"" + format_date(day.day) + "\"";
   if (!day.clock_changes.empty()) out += " data-clock-change=\"yes\"";
   if (skipped) out += " data-skipped=\"yes\"";
@@ -111,9 +119,8 @@ void write_day(std::string& out, const PageFacts& page, const Model& model, cons
   if (l.labelled) {
     for (size_t i : day.runs) {
       const RunResult& run = ev.runs[i];
-      out += "<g class=\"run\" data-model=\"" + esc(model.id) + "\" data-status=\"" + status_word(run.status) +
-             "\" data-at=\"" + format_rfc3339(run.at, model.zone) + "\"><title>" +
-             esc(run_title(plan, ev, model, i)) + "</title>" + status_mark(run.status, x + 13, ry + 5, 9) +
+      out += "<g class=\"run\" data-status=\"" + std::string(status_word(run.status)) + "\"><title>" +
+             esc(run_title(plan, ev, model, i)) + "</title>" + status_use(run.status, x + 13, ry + 5, 9) +
              "<text class=\"lbl-" + status_swatch(run.status) + "\" x=\"" + num(x + 22) + "\" y=\"" + num(ry + 9) +
              "\">" + hhmm(zone, run.at) + " " + status_word(run.status) + "</text></g>";
       ry += 15;
@@ -123,9 +130,8 @@ void write_day(std::string& out, const PageFacts& page, const Model& model, cons
     for (size_t i : day.runs) {
       const RunResult& run = ev.runs[i];
       double cx = x + 10 + 11 * static_cast<double>(k % l.per_row), cy = ry + 5 + 12 * static_cast<double>(k / l.per_row);
-      out += "<g class=\"run\" data-model=\"" + esc(model.id) + "\" data-status=\"" + status_word(run.status) +
-             "\" data-at=\"" + format_rfc3339(run.at, model.zone) + "\"><title>" +
-             esc(run_title(plan, ev, model, i)) + "</title>" + status_mark(run.status, cx, cy, 8) + "</g>";
+      out += "<g class=\"run\" data-status=\"" + std::string(status_word(run.status)) + "\"><title>" +
+             esc(run_title(plan, ev, model, i)) + "</title>" + status_use(run.status, cx, cy, 8) + "</g>";
       ++k;
     }
     if (!day.runs.empty()) {
@@ -141,10 +147,8 @@ void write_day(std::string& out, const PageFacts& page, const Model& model, cons
            esc(truncate(day.runs_skipped.front(), 11)) + "</text>";
   }
   if (!day.feeds_off.empty()) {
-    std::string feeds;
-    for (int s : day.feeds_off) feeds += (feeds.empty() ? "" : ", ") + plan.nodes[static_cast<size_t>(s)].id;
     out += "<text class=\"note-skip\" x=\"" + num(x + 7) + "\" y=\"" + num(ny + 11) + "\">off: " +
-           esc(truncate(feeds, 12)) + "</text>";
+           esc(truncate(feed_names(plan, day.feeds_off), 12)) + "</text>";
   }
   out += "</g>";
 }
@@ -156,8 +160,8 @@ void write_svg(std::string& out, const PageFacts& page, const ModelFacts& facts,
   LocalDays first_monday = facts.days.front().day - date::days(column(facts.days.front().day));
   size_t weeks = static_cast<size_t>((facts.days.back().day - first_monday).count() / 7 + 1);
   double width = 7 * kCellW, height = kHeadH + static_cast<double>(weeks) * l.cell_h;
-  out += "<svg class=\"calendar\" viewBox=\"0 0 " + num(width) + " " + num(height) + "\" width=\"" + num(width) +
-         "\" role=\"img\" aria-labelledby=\"" + caption_id + "\">";
+  out += "<svg class=\"calendar\" data-model=\"" + esc(model.id) + "\" viewBox=\"0 0 " + num(width) + " " +
+         num(height) + "\" width=\"" + num(width) + "\" role=\"img\" aria-labelledby=\"" + caption_id + "\">";
   out += "<title>" + esc("Calendar of the runs of " + model.id) + "</title>";
   for (int c = 0; c < 7; ++c) {
     out += "<text class=\"weekday\" x=\"" + num(c * kCellW + 7) + "\" y=\"14\">" + kWeekdays[c] + "</text>";
@@ -198,7 +202,7 @@ void write_table(std::string& out, const PageFacts& page, const ModelFacts& fact
     std::string marks;
     for (const std::string& c : day.clock_changes) marks += (marks.empty() ? "" : "; ") + c;
     for (const std::string& c : day.runs_skipped) marks += (marks.empty() ? "" : "; ") + ("runs skipped by calendar " + c);
-    for (int s : day.feeds_off) marks += (marks.empty() ? "" : "; ") + ("no delivery from " + plan.nodes[static_cast<size_t>(s)].id);
+    if (!day.feeds_off.empty()) marks += (marks.empty() ? "" : "; ") + ("no delivery from " + feed_names(plan, day.feeds_off));
     out += "<tr><td>" + format_date(day.day) + " " + std::string(weekday_name(weekday_of(day.day))).substr(0, 3) +
            "</td><td class=\"n\">" + std::to_string(day.runs.size()) + "</td><td class=\"n\">" + std::to_string(n[0]) +
            "</td><td class=\"n" + (n[1] ? " c-degraded" : "") + "\">" + std::to_string(n[1]) + "</td><td class=\"n" +

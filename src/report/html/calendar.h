@@ -8,9 +8,10 @@
 // degraded patterns are listed beside it, each linked to its timeline, and
 // the calendar's numbers follow as a table.
 //
-// Every run cell is an SVG group `g.run` with `data-model` (model id),
-// `data-status` (ok | degraded | fail) and `data-at` (RFC 3339), holding a
-// <title> with the run's time, status and its not-fresh features.
+// The calendar is an <svg class="calendar"> with `data-model` (the model id);
+// every run cell in it is a group `g.run` with `data-status` (ok | degraded |
+// fail), holding a <title> with the run's local time, status and its first
+// not-fresh features, and the status mark (a <use> of the page's symbols).
 
 #include <string>
 

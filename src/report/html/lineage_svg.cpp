@@ -67,6 +67,7 @@ std::string outline(NodeKind kind, bool model, double x, double y, double w, dou
 bool at_risk_before(const ConeNode& a, const ConeNode& b) {
   auto rank = [](RunStatus s) { return s == RunStatus::fail ? 0 : s == RunStatus::degraded ? 1 : 2; };
   if (rank(a.status) != rank(b.status)) return rank(a.status) < rank(b.status);
+  if (a.late_chains != b.late_chains) return a.late_chains > b.late_chains;
   int64_t ma = a.margin.margin_seconds.value_or(INT64_MAX), mb = b.margin.margin_seconds.value_or(INT64_MAX);
   if (ma != mb) return ma < mb;
   return a.node < b.node;
@@ -76,11 +77,13 @@ void write_node_table(std::string& out, const Plan& plan, const std::vector<Cone
                       bool open) {
   out += std::string("<details class=\"numbers\"") + (open ? " open" : "") + "><summary>" + summary +
          "</summary><table class=\"grid\"><thead><tr><th scope=\"col\">node</th><th scope=\"col\">kind</th>"
-         "<th scope=\"col\">status</th><th scope=\"col\">margin</th><th scope=\"col\">binding run</th></tr></thead><tbody>";
+         "<th scope=\"col\">status</th><th scope=\"col\">late chains through it</th><th scope=\"col\">margin</th>"
+         "<th scope=\"col\">binding run</th></tr></thead><tbody>";
   for (const ConeNode& n : nodes) {
     const Node& node = plan.nodes[static_cast<size_t>(n.node)];
     out += "<tr><td>" + esc(node.id) + "</td><td>" + to_string(node.kind) + "</td><td class=\"c-" +
-           status_swatch(n.status) + "\">" + status_word(n.status) + "</td><td>" +
+           status_swatch(n.status) + "\">" + status_word(n.status) + "</td><td class=\"n\">" +
+           std::to_string(n.late_chains) + "</td><td>" +
            (n.margin.margin_seconds ? esc(margin_words(n.margin)) : "—") + "</td><td>" +
            esc(binding_words(plan, n.margin)) + "</td></tr>";
   }
@@ -208,7 +211,8 @@ void LineageDrawer::write(std::string& out, const PageFacts& page, const ModelFa
     out += "</svg><figcaption id=\"" + caption_id + "\">The upstream cone of " + esc(model.id) + " has " +
            esc(counts) + ". It is larger than " + std::to_string(kMaxDrawnCone) +
            " nodes, so it is summarised: the table lists the " + std::to_string(kSummaryRows) +
-           " nodes most at risk.</figcaption>";
+           " nodes most at risk (on a failing run's chain first, then on a degraded one's, then on the most late "
+           "chains). Margins are computed for drawn cones only.</figcaption>";
     std::vector<ConeNode> ranked = cone.nodes;
     size_t rows = std::min(kSummaryRows, ranked.size());
     std::partial_sort(ranked.begin(), ranked.begin() + static_cast<std::ptrdiff_t>(rows), ranked.end(), at_risk_before);

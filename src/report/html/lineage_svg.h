@@ -6,7 +6,7 @@
 // carries the mark and frame colour of its status (page_facts.h) and its
 // margin. A cone with more than kMaxDrawnCone nodes is summarised instead:
 // a strip of its nodes by status and a table of the kSummaryRows nodes most
-// at risk (failing, then degraded, then smallest margin).
+// at risk (failing, then degraded, then on the most late runs' chains).
 //
 // Node groups are `g.lnode` with `data-node` and `data-status`.
 

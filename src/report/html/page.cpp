@@ -108,13 +108,14 @@ footer{margin-top:2em;font-size:.88em;color:var(--ink-soft)}
 }
 )CSS";
 
-// Patterns and markers shared by every SVG of the page (referenced by id).
+// Patterns, markers and (added by render_page, which closes the element) the
+// status symbols shared by every SVG of the page, referenced by id.
 const char kDefs[] =
     "<svg class=\"defs\" width=\"0\" height=\"0\" aria-hidden=\"true\" focusable=\"false\"><defs>"
     "<pattern id=\"rb-hatch\" width=\"7\" height=\"7\" patternUnits=\"userSpaceOnUse\" patternTransform=\"rotate(45)\">"
     "<line x1=\"0\" y1=\"0\" x2=\"0\" y2=\"7\" style=\"stroke:var(--rule);stroke-width:3\"/></pattern>"
     "<marker id=\"rb-arrow\" viewBox=\"0 0 8 8\" refX=\"7\" refY=\"4\" markerWidth=\"7\" markerHeight=\"7\" "
-    "orient=\"auto\"><path class=\"arrow-head\" d=\"M0 0L8 4L0 8Z\"/></marker></defs></svg>";
+    "orient=\"auto\"><path class=\"arrow-head\" d=\"M0 0L8 4L0 8Z\"/></marker>";
 
 std::string mark_svg(RunStatus s) {
   return "<svg viewBox=\"0 0 14 14\" width=\"14\" height=\"14\" aria-hidden=\"true\">" + status_mark(s, 7, 7, 12) +
@@ -232,7 +233,7 @@ std::string render_page(const PageFacts& facts) {
   out += "<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\">"
          "<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">"
          "<meta name=\"color-scheme\" content=\"light dark\"><title>" +
-         esc(title) + "</title><style>" + page_css() + "</style></head><body>" + kDefs + "<main><header><h1>" +
+         esc(title) + "</title><style>" + page_css() + "</style></head><body>" + kDefs + status_symbols() + "</defs></svg><main><header><h1>" +
          esc(plan.title.empty() ? plan.id : plan.title) + "</h1><p class=\"soft\">Plan <code>" + esc(plan.id) +
          "</code> (" + esc(plan.path) + "), zone " + esc(plan.zone->name()) + "; runs with local dates from " +
          format_date(ev.from) + " to " + format_date(last) + " (" + std::to_string(ev.days) +

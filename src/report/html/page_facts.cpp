@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <climits>
+#include <cstdint>
 #include <set>
 
 #include "history/drift.h"
@@ -16,20 +17,40 @@ Instant day_start(const Zone& zone, LocalDays day) { return zone.from_local(Loca
 
 int rank(RunStatus s) { return s == RunStatus::ok ? 0 : s == RunStatus::degraded ? 1 : 2; }
 
-// The worst status of the runs whose not-fresh feature's chain passes through each node.
-std::vector<RunStatus> node_statuses(const Plan& plan, const Evaluation& ev) {
-  std::vector<RunStatus> status(plan.nodes.size(), RunStatus::ok);
+// Per node: the worst status of the runs whose not-fresh feature's chain
+// passes through it, and how many such chains there are.
+struct NodeRisk {
+  std::vector<RunStatus> status;
+  std::vector<size_t> late_chains;
+};
+
+NodeRisk node_risk(const Plan& plan, const Evaluation& ev) {
+  NodeRisk risk{std::vector<RunStatus>(plan.nodes.size(), RunStatus::ok), std::vector<size_t>(plan.nodes.size(), 0)};
+  // Walked feature by feature in order of w: neighbouring lookups then touch
+  // the same profiles (several times faster on large plans than run order).
+  struct Late {
+    int feature;
+    int64_t w;
+    bool optional;
+  };
+  std::vector<Late> late;
   for (const RunResult& run : ev.runs) {
     for (const FeatureResult& f : run.features) {
-      if (f.status == FeatureStatus::ok) continue;
-      RunStatus s = f.optional ? RunStatus::degraded : RunStatus::fail;
-      for (int n : ev.chain(f)) {
-        RunStatus& cur = status[static_cast<size_t>(n)];
-        if (rank(s) > rank(cur)) cur = s;
-      }
+      if (f.status != FeatureStatus::ok) late.push_back({f.feature, to_unix(f.needs_data_through), f.optional});
     }
   }
-  return status;
+  std::sort(late.begin(), late.end(), [](const Late& a, const Late& b) {
+    return a.feature != b.feature ? a.feature < b.feature : a.w < b.w;
+  });
+  for (const Late& l : late) {
+    RunStatus s = l.optional ? RunStatus::degraded : RunStatus::fail;
+    for (int n : ev.engine().chain(l.feature, from_unix(l.w))) {
+      size_t i = static_cast<size_t>(n);
+      if (rank(s) > rank(risk.status[i])) risk.status[i] = s;
+      risk.late_chains[i]++;
+    }
+  }
+  return risk;
 }
 
 std::vector<std::string> clock_changes(const std::set<const Zone*>& zones, const Zone& model_zone, LocalDays day) {
@@ -45,17 +66,17 @@ std::vector<std::string> clock_changes(const std::set<const Zone*>& zones, const
   return out;
 }
 
-ConeFacts cone_of(const Plan& plan, const Evaluation& ev, const Model& model, const std::vector<int>& order,
-                  const std::vector<RunStatus>& status, const std::vector<NodeMargin>& margins) {
+ConeFacts cone_of(const Plan& plan, const std::vector<bool>& mask, const std::vector<int>& order,
+                  const NodeRisk& risk, const std::vector<NodeMargin>& margins) {
   ConeFacts cone;
-  std::vector<bool> mask = ev.lineage_->upstream_mask(model.features);
   std::vector<int> position(plan.nodes.size(), -1);
   for (int n : order) {
     if (!mask[static_cast<size_t>(n)]) continue;
     position[static_cast<size_t>(n)] = static_cast<int>(cone.nodes.size());
     ConeNode c;
     c.node = n;
-    c.status = status[static_cast<size_t>(n)];
+    c.status = risk.status[static_cast<size_t>(n)];
+    c.late_chains = risk.late_chains[static_cast<size_t>(n)];
     if (!margins.empty()) c.margin = margins[static_cast<size_t>(n)];
     cone.nodes.push_back(c);
     const Node& node = plan.nodes[static_cast<size_t>(n)];
@@ -120,17 +141,22 @@ PageFacts gather_page_facts(const Plan& plan, const Evaluation& ev) {
   PageFacts page;
   page.plan = &plan;
   page.evaluation = &ev;
-  std::vector<int> model_features;
-  for (const Model& m : plan.models) model_features.insert(model_features.end(), m.features.begin(), m.features.end());
-  std::vector<bool> used = ev.lineage_->upstream_mask(model_features);
-  page.advice = gather_advice(plan, ev, &used);
-  std::vector<RunStatus> status = node_statuses(plan, ev);
+  // Cones first: margins are computed for the nodes of the cones that are drawn.
+  std::vector<std::vector<bool>> masks;
+  std::vector<bool> drawn(plan.nodes.size(), false);
+  for (const Model& model : plan.models) {
+    masks.push_back(ev.lineage_->upstream_mask(model.features));
+    if (static_cast<size_t>(std::count(masks.back().begin(), masks.back().end(), true)) > kMaxDrawnCone) continue;
+    for (size_t n = 0; n < drawn.size(); ++n) drawn[n] = drawn[n] || masks.back()[n];
+  }
+  page.advice = gather_advice(plan, ev, &drawn);
+  NodeRisk risk = node_risk(plan, ev);
   std::vector<int> order = ev.lineage_->topological_order();
   for (size_t m = 0; m < plan.models.size(); ++m) {
     const Model& model = plan.models[m];
     ModelFacts facts;
     facts.model = static_cast<int>(m);
-    facts.cone = cone_of(plan, ev, model, order, status, page.advice.margins);
+    facts.cone = cone_of(plan, masks[m], order, risk, page.advice.margins);
     model_days(plan, ev, model, static_cast<int>(m), facts.cone, &facts);
     for (size_t p = 0; p < page.advice.patterns.size(); ++p) {
       if (page.advice.patterns[p].model == static_cast<int>(m)) facts.patterns.push_back(p);

@@ -15,7 +15,9 @@
 //   whose not-fresh feature's chain passes through the node — fail for a
 //   required feature, degraded for an optional one; ok when no such run.
 // - A cone is drawn when it holds at most kMaxDrawnCone nodes; a larger one is
-//   summarised (counts by kind and status, and its tightest nodes).
+//   summarised (counts by kind and status, and the nodes on the most late
+//   chains). Margins are computed for the nodes of drawn cones only: they
+//   cost a chain explanation per feature of every ok run.
 
 #include <optional>
 #include <string>
@@ -45,7 +47,8 @@ struct DayFacts {
 struct ConeNode {
   int node = -1;
   RunStatus status = RunStatus::ok;
-  NodeMargin margin;
+  size_t late_chains = 0; // chains of not-fresh features (one per run and feature) through the node
+  NodeMargin margin;      // computed for the nodes of drawn cones only
 };
 
 struct ConeFacts {

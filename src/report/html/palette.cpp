@@ -112,4 +112,19 @@ std::string status_mark(RunStatus status, double cx, double cy, double size) {
   return "";
 }
 
+std::string status_symbols() {
+  std::string out;
+  const RunStatus all[] = {RunStatus::ok, RunStatus::degraded, RunStatus::fail};
+  for (RunStatus s : all) {
+    out += std::string("<symbol id=\"rb-") + status_word(s) + "\" viewBox=\"0 0 12 12\">" + status_mark(s, 6, 6, 11) +
+           "</symbol>";
+  }
+  return out;
+}
+
+std::string status_use(RunStatus status, double cx, double cy, double size) {
+  return std::string("<use href=\"#rb-") + status_word(status) + "\" x=\"" + num(cx - size / 2) + "\" y=\"" +
+         num(cy - size / 2) + "\" width=\"" + num(size) + "\" height=\"" + num(size) + "\"/>";
+}
+
 }  // namespace readyby::html

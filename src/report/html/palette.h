@@ -63,4 +63,11 @@ const char* status_word(RunStatus s);
 /// using the CSS classes of the page (st-ok, st-degraded, st-fail).
 std::string status_mark(RunStatus status, double cx, double cy, double size);
 
+/// The three marks as SVG <symbol>s (ids rb-ok, rb-degraded, rb-fail), for
+/// the page's shared definitions.
+std::string status_symbols();
+/// A <use> of the symbol of `status`, centred at (cx, cy), `size` wide: the
+/// compact form of status_mark for pictures with many marks.
+std::string status_use(RunStatus status, double cx, double cy, double size);
+
 }  // namespace readyby::html
