@@ -7,7 +7,8 @@ a line, sorted, so the C++ tests compare plain lines.
                                     cell MODEL STATUS COUNT    run cells of each model's calendar
                                     timeline STATUS MODEL DESCRIPTION
                                     chart SOURCE               landing-offset charts
-  report_dom.py check-json FILE   `check --format json`: cell MODEL STATUS COUNT
+  report_dom.py check-json FILE   `check --format json`: cell MODEL STATUS COUNT, and
+                                  timeline STATUS MODEL DESCRIPTION per pattern
   report_dom.py nightly-json FILE `nightly --format json`: chart SOURCE per drift entry
   report_dom.py html5 FILE        strict HTML5 parse (html5lib): prints each error; exit 1 on any
   report_dom.py png FILE          a PNG (8-bit RGB/RGBA, not interlaced): size W H, colours N,
@@ -48,7 +49,9 @@ def check_json_facts(path):
     with open(path) as f:
         doc = json.load(f)
     cells = collections.Counter((r["model"], r["status"]) for r in doc["runs"])
-    return sorted("cell %s %s %d" % (m, s, n) for (m, s), n in cells.items())
+    lines = ["cell %s %s %d" % (m, s, n) for (m, s), n in cells.items()]
+    lines += ["timeline %s %s %s" % (p["status"], p["model"], p["description"]) for p in doc.get("patterns", [])]
+    return sorted(lines)
 
 
 def nightly_json_facts(path):

@@ -181,15 +181,24 @@ TEST_CASE("every failing and degraded pattern has a timeline with its chain, the
     if (p.fault_node >= 0) {
       CHECK(figure.find("<g class=\"step at-fault\" data-node=\"" + r->plan.nodes[static_cast<size_t>(p.fault_node)].id +
                         "\"") != std::string::npos);
-      CHECK(figure.find(esc(p.fix)) != std::string::npos);
+    }
+    if (p.fixes.empty()) {
+      CHECK(figure.find(esc(p.no_fix)) != std::string::npos);
+    } else {
+      for (const FixFacts& fix : p.fixes) {
+        CHECK(figure.find(esc(fix.text)) != std::string::npos);
+        CHECK(figure.find(esc(fix.effect)) != std::string::npos);
+      }
     }
     std::string verdict = p.worst.status == FeatureStatus::never ? "never fresh"
                                                                   : "late by " + human_duration(-*p.worst.slack_seconds);
     CHECK(figure.find(verdict) != std::string::npos);
   }
-  // The failing pattern of the daylight-saving day names a step to change.
+  // The failing pattern of the daylight-saving day names the step at fault and a verified fix.
   for (const PatternFacts& p : advice.patterns) {
-    if (p.status == RunStatus::fail) CHECK(p.fault_node >= 0);
+    if (p.status != RunStatus::fail) continue;
+    CHECK(p.fault_node >= 0);
+    CHECK_FALSE(p.fixes.empty());
   }
 }
 

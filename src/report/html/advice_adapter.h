@@ -1,23 +1,20 @@
 #pragma once
-// The report page's one door to the advice facts: failure patterns, the run
-// each pattern is explained by, the fix under it, and each node's margin.
-// The page writers read only these structs, so switching the source of the
-// facts (to the engine's patterns, verified fixes and margins of DESIGN §9)
-// is a change inside advice_adapter.cpp alone.
+// The report page's one door to the advice facts: failure and degradation
+// patterns, the run each pattern is explained by, its cause, its verified
+// fixes, and each node's margin. The page writers read only these structs,
+// so where the facts come from is a matter for advice_adapter.cpp alone.
 //
 // Today the facts come from:
-// - failing patterns, their worst run, critical chain and fix:
-//   report/failure_patterns.h (failure_patterns, explain_chain, fix_for). The
-//   fix is the proposed edit; it is not yet re-evaluated, so `fix_verified`
-//   is false and `fix_changes` empty;
-// - degraded runs: grouped here per model by the optional features they miss
-//   and the source their chain starts at (failure_patterns groups failing
-//   runs only), each group explained by its worst run;
+// - patterns, their worst run and its blame (the chain with each step's
+//   landing, latest on-time landing and the step at fault):
+//   engine/patterns.h (PatternCollector) and engine/blame.h;
+// - fixes: engine/fixes.h (FixFinder): each fix has been re-evaluated over
+//   the window (every run of its pattern clears; the other runs it changes
+//   are listed); the sentences come from report/advice_text.h;
 // - margins: the smallest headroom (latest on-time landing minus landing,
-//   explain_chain) of the node over the chains that decide ok runs, with the
-//   run that binds it. DESIGN §9's margin re-evaluates delays of the node; on
-//   a chain that decides a run the two agree, and a node on no deciding chain
-//   has no margin here (`margin_seconds` nullopt).
+//   from the blame of each feature of every ok run) of the node, with the
+//   run that binds it. On a chain that decides a run this is DESIGN §9's
+//   margin; a node on no deciding chain has no margin here (nullopt).
 // Pure computation over an Evaluation: no I/O.
 
 #include <optional>
@@ -34,9 +31,9 @@ struct TimelineStep {
   int node = -1;
   std::optional<Instant> start;        // when the step starts: scheduled delivery, job start; nullopt: never
   std::optional<Instant> landed;       // E_node(w); nullopt: never
-  std::optional<Instant> latest;       // latest landing that keeps the run on time; nullopt: unknown
+  std::optional<Instant> latest;       // latest landing that keeps the run on time; nullopt: none possible
   std::optional<Instant> stale_start;  // a fixed start that came before its input landed (read old data)
-  bool at_fault = false;               // the step the fix changes
+  bool at_fault = false;               // the cause: the step nearest the feature late on its own account
 };
 
 /// One feature of one run, its chain laid out for a timeline.
@@ -50,19 +47,24 @@ struct ExplainedRun {
   std::vector<TimelineStep> steps;     // source first
 };
 
+/// A fix, re-evaluated over the window before it is offered.
+struct FixFacts {
+  std::string text;                    // what it changes, with the edit ("delay bed_board=-PT50M")
+  std::string effect;                  // the re-check: pattern runs ok, other runs that change
+  bool breaks_others = false;          // some other run gets worse
+};
+
 struct PatternFacts {
   int model = -1;
   RunStatus status = RunStatus::fail;  // fail or degraded
   std::string description;             // "fails every Monday (4 of 4 Monday runs)"
   std::vector<size_t> runs;            // indices into Evaluation::runs
   std::vector<int> features;           // the features not fresh (node indices)
-  ExplainedRun worst;                  // the pattern's worst run, its worst feature
-  int fault_node = -1;                 // the step to change; -1 when none can be named
-  std::string fix;                     // the fix in words; empty when none
-  bool fix_verified = false;           // true once re-evaluated with the edit applied (DESIGN §9)
-  std::vector<std::string> fix_changes;  // other runs whose status the fix changes (verified fixes only)
-  std::optional<int64_t> start_later_seconds;  // or start the pattern's runs this much later
-  std::vector<int> stale_jobs;         // fixed-time steps that read old data
+  ExplainedRun worst;                  // the pattern's worst run, its blamed feature
+  int fault_node = -1;                 // the step at fault; -1 when none
+  std::string cause;                   // why, in words; empty when none
+  std::vector<FixFacts> fixes;         // verified fixes, best first; empty: see no_fix
+  std::string no_fix;                  // why no fix is offered (when fixes is empty)
 };
 
 struct NodeMargin {
@@ -72,7 +74,7 @@ struct NodeMargin {
 };
 
 struct AdviceFacts {
-  std::vector<PatternFacts> patterns;  // models in plan order; failing patterns first, then degraded
+  std::vector<PatternFacts> patterns;  // models in plan order; failing before degraded, then first run
   std::vector<NodeMargin> margins;     // by node index (empty when not asked for)
 };
 
@@ -81,8 +83,7 @@ struct AdviceFacts {
 AdviceFacts gather_advice(const Plan& plan, const Evaluation& ev, const std::vector<bool>* margins_for);
 
 /// The explanation of feature `feature_pos` (position in run.features) of
-/// run `run_index`, with the step at fault marked when a fix names one.
-ExplainedRun explain_for_timeline(const Plan& plan, const Evaluation& ev, size_t run_index, size_t feature_pos,
-                                  int fault_node);
+/// run `run_index`, with its cause step marked.
+ExplainedRun explain_for_timeline(const Plan& plan, const Evaluation& ev, size_t run_index, size_t feature_pos);
 
 }  // namespace readyby::html

@@ -54,13 +54,14 @@ void timing(std::string& out, const IntakeReport& r) {
     out += "<p>Degraded: optional " + esc(join(t.degraded_features)) + " not always fresh.</p>";
   }
   if (t.patterns.empty()) return;
-  out += "<table class=\"grid\"><thead><tr><th scope=\"col\">failure</th><th scope=\"col\">runs</th>"
+  out += "<table class=\"grid\"><thead><tr><th scope=\"col\">pattern</th><th scope=\"col\">runs</th>"
          "<th scope=\"col\">late chain</th><th scope=\"col\">cheapest fix</th></tr></thead><tbody>";
   for (const TimingPattern& p : t.patterns) {
     std::string chain;
     for (const std::string& n : p.chain) chain += (chain.empty() ? "" : " → ") + n;
     out += "<tr><td>" + esc(p.description) + "</td><td class=\"n\">" + std::to_string(p.runs) + "</td><td>" +
-           esc(chain) + "</td><td>" + (p.cheapest ? esc(p.cheapest->text) : std::string("none found")) + "</td></tr>";
+           esc(chain) + "</td><td>" + esc(p.cheapest ? p.cheapest->text + " (" + p.cheapest->effect + ")" : p.no_fix) +
+           "</td></tr>";
   }
   out += "</tbody></table>";
 }

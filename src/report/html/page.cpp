@@ -60,6 +60,8 @@ svg text.note-skip{fill:var(--skip);font-size:9px}
 .axis{stroke:var(--ink-soft)}.tick{stroke:var(--rule);stroke-width:.8}
 .step-id{font-weight:600}
 .fix{background:var(--panel);border-left:4px solid var(--due);padding:6px 10px;color:var(--ink);max-width:62em}
+.fix .effect{color:var(--ink-soft)}.fix .effect-worse{color:var(--degraded);font-weight:600}
+.cause{max-width:62em}
 .edge{fill:none;stroke:var(--ink-soft);stroke-width:1.2;marker-end:url(#rb-arrow)}
 .arrow-head{fill:var(--ink-soft)}
 .lbox{fill:var(--panel);stroke:var(--ok);stroke-width:1.4}

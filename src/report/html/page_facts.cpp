@@ -166,7 +166,7 @@ PageFacts gather_page_facts(const Plan& plan, const Evaluation& ev) {
       for (size_t k = 0; k < run.features.size(); ++k) {
         const FeatureResult& f = run.features[k];
         if (!f.optional && f.status != FeatureStatus::never && f.slack_seconds == *facts.tightest_slack_seconds) {
-          facts.explained = explain_for_timeline(plan, ev, *facts.tightest_run, k, -1);
+          facts.explained = explain_for_timeline(plan, ev, *facts.tightest_run, k);
           break;
         }
       }

@@ -241,27 +241,22 @@ void write_pattern_timeline(std::string& out, const PageFacts& page, size_t inde
   std::string heading = "<h4><svg class=\"mark\" viewBox=\"0 0 14 14\" width=\"14\" height=\"14\" aria-hidden=\"true\">" +
                         status_mark(p.status, 7, 7, 12) + "</svg> " + esc(p.description) + "</h4>";
   std::string after;
-  if (!p.fix.empty()) {
-    after += "<p class=\"fix\"><strong>" + std::string(p.fix_verified ? "Verified fix" : "Fix") + "</strong>" +
-             (p.fix_verified ? "" : " (proposed for the worst run; not yet re-evaluated over the window)") + ": " +
-             esc(p.fix) + ".";
-    if (p.fix_verified) {
-      after += p.fix_changes.empty() ? " No other run changes status." : " Other runs that change:";
-      for (const std::string& c : p.fix_changes) after += " " + esc(c) + ";";
-    }
-    after += "</p>";
-  } else {
-    after += "<p class=\"fix\"><strong>No fix</strong> can be named on the chain.</p>";
+  if (!p.cause.empty()) after += "<p class=\"cause\"><strong>Cause</strong> (worst run): " + esc(p.cause) + ".</p>";
+  for (size_t i = 0; i < p.fixes.size(); ++i) {
+    const FixFacts& fix = p.fixes[i];
+    after += "<p class=\"fix\"><strong>" + std::string(i == 0 ? "Fix" : "Or") + "</strong>: " + esc(fix.text) +
+             "<br><span class=\"" + (fix.breaks_others ? "effect-worse" : "effect") + "\">" + esc(fix.effect) +
+             "</span></p>";
   }
-  if (p.start_later_seconds) {
-    after += "<p class=\"fix\">Or start the run " + human_duration(*p.start_later_seconds) + " later" +
-             (p.runs.size() > 1 ? " (enough for every run of this pattern)" : "") + ".</p>";
-  }
-  for (int job : p.stale_jobs) {
-    const Node& n = plan.nodes[static_cast<size_t>(job)];
+  if (p.fixes.empty()) after += "<p class=\"fix\"><strong>No fix</strong>: " + esc(p.no_fix) + "</p>";
+  for (size_t i = 0; i < p.worst.steps.size(); ++i) {
+    const TimelineStep& step = p.worst.steps[i];
+    if (!step.stale_start || step.at_fault) continue;
+    const Node& n = plan.nodes[static_cast<size_t>(step.node)];
     after += "<p class=\"note\">Stale read: " + std::string(to_string(n.kind)) + " " + esc(n.id) +
-             " starts on a fixed schedule (" + esc(n.trigger ? n.trigger->text : "") +
-             ") before its input lands; that start reads old data (ring on the chart).</p>";
+             " starts on a fixed schedule (" + esc(n.trigger ? n.trigger->text : "") + ") at " +
+             format_local(model.zone->to_local(*step.stale_start)) +
+             ", before its input lands; that start reads old data (ring on the chart).</p>";
   }
   std::string runs;
   size_t shown = 0;

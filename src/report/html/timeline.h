@@ -5,7 +5,8 @@
 // (solid), a caret at each step's latest on-time landing, the slack or the
 // lateness written at the deadline, the step at fault drawn as a block-red
 // bar with "at fault" beside it, a stale fixed start as a hollow ring. The
-// fix is written under the figure and the steps follow as a table. Times on
+// cause and the verified fixes (each with what its re-check found) are
+// written under the figure, and the steps follow as a table. Times on
 // the axis and in the table are local times of the model's zone.
 //
 // Each timeline is a <figure class="timeline"> with `data-model`, and
