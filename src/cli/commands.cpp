@@ -74,6 +74,17 @@ const char kIntakeUsage[] =
     "  --days 28, --format text (markdown is made to paste into a review ticket).\n"
     "  Exit 0 when every run is ok or degraded, 1 when some run fails, 2 on bad input.\n";
 
+const char kReportUsage[] =
+    "usage: readyby report PLAN [--from YYYY-MM-DD] [--days N] [--db FILE [--date YYYY-MM-DD]]\n"
+    "                      [--proposal FILE [--registry DIR]...] --out FILE.html\n"
+    "  Writes one self-contained HTML page (inline CSS and SVG, nothing fetched, no script):\n"
+    "  per model a calendar of the runs of [from, from+days), a timeline of each failing or\n"
+    "  degraded pattern's chain with its fix, and the upstream lineage; with --db the landing\n"
+    "  offsets per monitored source and on-time rates over the 28 days to --date; with\n"
+    "  --proposal the intake screening of a proposal for a model of PLAN, with its cautions.\n"
+    "  Defaults as for check and nightly. The page is written to a temporary file and renamed.\n"
+    "  Exit 0 when every run is ok or degraded, 1 when some run fails, 2 on bad input.\n";
+
 }  // namespace
 
 const std::vector<Command>& command_table() {
@@ -85,6 +96,7 @@ const std::vector<Command>& command_table() {
       {"catalog", "validate, search and show the catalogue of published scores", kCatalogUsage, cmd_catalog},
       {"reuse", "has an established score already covered this proposal?", kReuseUsage, cmd_reuse},
       {"intake", "screen a proposed model: data timing, established scores, recommendation", kIntakeUsage, cmd_intake},
+      {"report", "write an HTML page of calendars, chain timelines, lineage and history", kReportUsage, cmd_report},
       {"help", "list the commands, or show one command's usage", kHelpUsage, cmd_help},
   };
   return kTable;

@@ -49,10 +49,17 @@ void timing_section(const IntakeReport& r, std::string* out) {
     *out += "  degraded: optional " + join(t.degraded_features, ", ") + " not always fresh\n";
   }
   for (const TimingPattern& p : t.patterns) {
-    *out += "  ✗ " + p.description + "\n";
-    *out += "      not fresh: " + join(p.failing_features, ", ") + "; chain: " + join(p.chain, " → ") + "\n";
-    if (p.data_fix) *out += "      fix: " + p.data_fix->text + "\n";
-    if (p.later_start) *out += "      or: " + p.later_start->text + "\n";
+    *out += std::string(p.degraded ? "  ~ " : "  ✗ ") + p.description + "\n";
+    *out += std::string(p.degraded ? "      optional, not fresh: " : "      not fresh: ") + join(p.failing_features, ", ") +
+            "; chain: " + join(p.chain, " → ") + "\n";
+    if (!p.cause.empty()) *out += "      cause: " + p.cause + "\n";
+    const char* label = "fix: ";
+    for (const std::optional<TimingFix>* fix : {&p.data_fix, &p.later_start}) {
+      if (!*fix) continue;
+      *out += std::string("      ") + label + (*fix)->text + "\n           " + (*fix)->effect + "\n";
+      label = "or: ";
+    }
+    if (!p.no_fix.empty()) *out += "      fix: " + p.no_fix + "\n";
   }
 }
 
