@@ -99,7 +99,8 @@ def history_for_plan(a):
             landed = o + dt.timedelta(seconds=max(0, int(offset)))
             through = o - dt.timedelta(seconds=lag)
             if rng.random() < 0.01:
-                rows.append((landed - dt.timedelta(minutes=5), f"{s},{fmt(landed - dt.timedelta(minutes=5))},{fmt(through)},0,failed\n"))
+                failed = max(landed - dt.timedelta(minutes=5), through)
+                rows.append((failed, f"{s},{fmt(failed)},{fmt(through)},0,failed\n"))
             rows.append((landed, f"{s},{fmt(landed)},{fmt(through)},{rng.randrange(100, 100000)},ok\n"))
     rows.sort(key=lambda r: r[0])
     with open(a.log_out, "w") as out:

@@ -76,12 +76,14 @@ const char kReuseUsage[] =
     "  --registry layers a local registry folder over the shipped one (repeatable).\n"
     "  Exit 0 on success, 2 on invalid input.\n";
 const char kIntakeUsage[] =
-    "usage: readyby intake PROPOSAL [--from YYYY-MM-DD] [--days N] [--registry DIR]...\n"
+    "usage: readyby intake PROPOSAL [--from YYYY-MM-DD] [--days N] [--registry DIR]... [--db FILE]\n"
     "                      [--format text|json|markdown]\n"
     "  One screening report for a proposed model: will its data be there in time (the\n"
     "  proposal's plan and model, checked over [from, from+days)), has an established score\n"
     "  already covered it, can those scores run on time on this plan, and the recommendation:\n"
     "  reuse-and-validate, fix-data-plan-first, close-gaps-or-build or build.\n"
+    "  With --db (a landing history, see record), also forecasts from how the feeds have really\n"
+    "  landed the share of runs on which the model's, and each candidate score's, inputs are fresh.\n"
     "  The proposal must name a plan and a model. Defaults: --from today in the model's zone,\n"
     "  --days 28, --format text (markdown is made to paste into a review ticket).\n"
     "  Exit 0 when every run is ok or degraded, 1 when some run fails, 2 on bad input.\n";

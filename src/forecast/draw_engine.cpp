@@ -66,6 +66,16 @@ void push(std::vector<Piece>& p, const Piece& x) {
 // The max over inputs on (lo, hi] where each input is one piece; ties go to
 // the lowest input index (DESIGN §4), as in engine/freshness.cpp.
 void combine(const std::vector<const Piece*>& current, int64_t lo, int64_t hi, std::vector<Piece>& out) {
+  {
+    // The common case: every input constant; the first largest wins.
+    const Piece* best = current[0];
+    bool constants = best->kind == kConstant;
+    for (size_t i = 1; i < current.size() && constants; ++i) {
+      constants = current[i]->kind == kConstant;
+      if (current[i]->value > best->value) best = current[i];
+    }
+    if (constants) return push(out, {hi, best->value, best->origin, kConstant});
+  }
   int never_i = -1, const_i = -1, shift_i = -1;
   int64_t const_value = 0, shift_value = 0;
   for (size_t i = 0; i < current.size(); ++i) {
@@ -311,8 +321,28 @@ void observed_profile(int n, const std::vector<DrawEngine::Occurrence>& occurren
   for (size_t i = reversed.size(); i-- > 0;) push(p, reversed[i]);
 }
 
-// The max over the inputs' profiles, by one sweep of their breakpoints.
-void max_of_inputs(const std::vector<const std::vector<Piece>*>& inputs, std::vector<size_t>& cursor,
+// The first index at or after `from` whose piece reaches `w` (galloping, then binary search).
+size_t piece_reaching(const std::vector<Piece>& pieces, size_t from, int64_t w) {
+  size_t step = 1, hi = from;
+  while (hi < pieces.size() && pieces[hi].upto < w) {
+    from = hi + 1;
+    hi += step;
+    step *= 2;
+  }
+  hi = std::min(hi, pieces.size() - 1);
+  return static_cast<size_t>(std::lower_bound(pieces.begin() + static_cast<std::ptrdiff_t>(from),
+                                              pieces.begin() + static_cast<std::ptrdiff_t>(hi) + 1, w,
+                                              [](const Piece& p, int64_t x) { return p.upto < x; }) -
+                             pieces.begin());
+}
+
+// The max over the inputs' profiles, by one sweep of their breakpoints. E is
+// non-decreasing in w (for w past the queried range's start), so when one
+// input's constant piece beats every other input's value at that piece's
+// end, it beats them on the whole piece: the sweep then jumps to its end
+// instead of visiting the others' breakpoints one by one (an hourly feed
+// under a daily one costs one step a day, not 24).
+void max_of_inputs(const std::vector<const std::vector<Piece>*>& inputs, int64_t jump_from, std::vector<size_t>& cursor,
                    std::vector<const Piece*>& current, std::vector<Piece>& out) {
   const size_t k = inputs.size();
   cursor.assign(k, 0);
@@ -323,6 +353,40 @@ void max_of_inputs(const std::vector<const std::vector<Piece>*>& inputs, std::ve
     for (size_t i = 0; i < k; ++i) {
       current[i] = &(*inputs[i])[cursor[i]];
       hi = std::min(hi, current[i]->upto);
+    }
+    if (lo >= jump_from && hi < kForever) {
+      // The constant piece with the largest value (lowest index on ties) may dominate to its end.
+      size_t d = k;
+      for (size_t i = 0; i < k; ++i) {
+        if (current[i]->kind != kConstant) {
+          d = k;
+          break;
+        }
+        if (d == k || current[i]->value > current[d]->value) d = i;
+      }
+      if (d < k && current[d]->upto > hi && current[d]->upto < kForever) {
+        const int64_t end = current[d]->upto, value = current[d]->value;
+        bool dominates = true;
+        for (size_t j = 0; j < k && dominates; ++j) {
+          if (j == d) continue;
+          const size_t at = piece_reaching(*inputs[j], cursor[j], end);
+          const Piece& p = (*inputs[j])[at];
+          if (p.kind == kNever) dominates = false;
+          else {
+            const int64_t v = p.kind == kConstant ? p.value : end + p.value;
+            dominates = j < d ? v < value : v <= value;
+          }
+        }
+        if (dominates) {
+          push(out, {end, value, current[d]->origin, kConstant});
+          for (size_t j = 0; j < k; ++j) {
+            cursor[j] = piece_reaching(*inputs[j], cursor[j], end);
+            if ((*inputs[j])[cursor[j]].upto == end) ++cursor[j];
+          }
+          lo = end;
+          continue;
+        }
+      }
     }
     combine(current, lo, hi, out);
     if (hi >= kForever) return;
@@ -423,7 +487,7 @@ void DrawEngine::build(int n, Scratch* s, std::vector<Piece>& out) const {
   s->inputs.clear();
   for (int i : node.inputs) s->inputs.push_back(&profile_of(i, s));
   s->merged.clear();
-  max_of_inputs(s->inputs, s->cursor, s->current, s->merged);
+  max_of_inputs(s->inputs, w_lo_ - 1, s->cursor, s->current, s->merged);
   derive(n, s->merged, out);
 }
 
@@ -465,20 +529,32 @@ void DrawEngine::answer(size_t feature_range, const std::vector<Piece>& profile,
 bool DrawEngine::judge(size_t run, const std::vector<int64_t>& ready, const std::vector<int32_t>& origin,
                        std::vector<int32_t>& origins) const {
   const int64_t at = run_at_[run];
-  bool fail = false, degraded = false;
+  origins.clear();
+  size_t required_late = 0;  // origins[0, required_late): of late non-optional inputs; the rest: optional ones
+  bool degraded = false;
   for (uint32_t k = run_input_begin_[run]; k < run_input_begin_[run + 1]; ++k) {
     const auto [q, optional] = run_inputs_[k];
     if (ready[q] <= at) continue;
-    (optional ? degraded : fail) = true;
+    const int32_t o = origin[q];
+    if (!optional) {
+      if (std::find(origins.begin(), origins.begin() + static_cast<std::ptrdiff_t>(required_late), o) !=
+          origins.begin() + static_cast<std::ptrdiff_t>(required_late)) {
+        continue;
+      }
+      origins.insert(origins.begin() + static_cast<std::ptrdiff_t>(required_late), o);
+      ++required_late;
+    } else {
+      degraded = true;
+      if (std::find(origins.begin() + static_cast<std::ptrdiff_t>(required_late), origins.end(), o) == origins.end()) {
+        origins.push_back(o);
+      }
+    }
   }
-  if (!fail && !degraded) return true;
-  origins.clear();
-  for (uint32_t k = run_input_begin_[run]; k < run_input_begin_[run + 1]; ++k) {
-    const auto [q, optional] = run_inputs_[k];
-    if (ready[q] <= at || optional == fail) continue;
-    if (std::find(origins.begin(), origins.end(), origin[q]) == origins.end()) origins.push_back(origin[q]);
+  if (required_late > 0) {
+    origins.resize(required_late);
+    return false;
   }
-  return false;
+  return !degraded;
 }
 
 void DrawEngine::evaluate_fixed_runs() {

@@ -225,6 +225,23 @@ ForecastTarget model_target(const Plan& plan, int model, LocalDays from, int day
   return t;
 }
 
+std::vector<int> unmonitored_sources(const Plan& plan, const LandingModels& models, const std::vector<int>& features) {
+  std::vector<bool> seen(plan.nodes.size(), false);
+  std::vector<int> stack = features, out;
+  while (!stack.empty()) {
+    const int n = stack.back();
+    stack.pop_back();
+    if (seen[static_cast<size_t>(n)]) continue;
+    seen[static_cast<size_t>(n)] = true;
+    if (models.of(n)) continue;
+    const Node& node = plan.nodes[static_cast<size_t>(n)];
+    if (node.kind == NodeKind::source) out.push_back(n);
+    stack.insert(stack.end(), node.inputs.begin(), node.inputs.end());
+  }
+  std::sort(out.begin(), out.end());
+  return out;
+}
+
 Instant window_start(const Plan& plan, LocalDays from) {
   return plan.zone->from_local(LocalTime(from.time_since_epoch()));
 }
@@ -246,24 +263,9 @@ ForecastReport forecast_plan(const Plan& plan, const History& history, LocalDays
   }
   std::vector<TargetForecast> results = forecast_targets(plan, report.models, std::move(targets), options);
   for (size_t i = 0; i < results.size(); ++i) report.forecasts[i].forecast = std::move(results[i]);
-  // Unmonitored sources that some model's features depend on (not past a monitored node).
-  std::vector<bool> seen(plan.nodes.size(), false);
-  std::vector<int> stack;
-  for (const Model& m : plan.models) stack.insert(stack.end(), m.features.begin(), m.features.end());
-  while (!stack.empty()) {
-    const int n = stack.back();
-    stack.pop_back();
-    if (seen[static_cast<size_t>(n)]) continue;
-    seen[static_cast<size_t>(n)] = true;
-    if (report.models.of(n)) continue;
-    const Node& node = plan.nodes[static_cast<size_t>(n)];
-    stack.insert(stack.end(), node.inputs.begin(), node.inputs.end());
-  }
-  for (size_t n = 0; n < plan.nodes.size(); ++n) {
-    if (seen[n] && plan.nodes[n].kind == NodeKind::source && !report.models.of(static_cast<int>(n))) {
-      report.unmonitored.push_back(static_cast<int>(n));
-    }
-  }
+  std::vector<int> features;
+  for (const Model& m : plan.models) features.insert(features.end(), m.features.begin(), m.features.end());
+  report.unmonitored = unmonitored_sources(plan, report.models, features);
   return report;
 }
 

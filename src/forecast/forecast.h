@@ -87,6 +87,11 @@ ForecastTarget run_spec_target(const Plan& plan, int model, int spec, LocalDays 
 /// A model's runs (all its specs, one run per instant) as a target.
 ForecastTarget model_target(const Plan& plan, int model, LocalDays from, int days);
 
+/// Sources that `features` depend on (not looking past a monitored node)
+/// with no landing model: they keep their declared timing in every draw.
+/// Ascending node order.
+std::vector<int> unmonitored_sources(const Plan& plan, const LandingModels& models, const std::vector<int>& features);
+
 /// The first instant of local date `from` in the plan's zone.
 Instant window_start(const Plan& plan, LocalDays from);
 

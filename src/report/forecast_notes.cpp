@@ -19,7 +19,7 @@ std::string whole_percent(double p) {
 
 std::string percent_with_interval(double p, const std::optional<ProportionInterval>& interval) {
   std::string out = "about " + whole_percent(p);
-  if (interval) {
+  if (interval && whole_percent(interval->low) != whole_percent(interval->high)) {
     char buffer[48];
     std::snprintf(buffer, sizeof buffer, " (%.0f–%.0f%%)", interval->low * 100, interval->high * 100);
     out += buffer;
