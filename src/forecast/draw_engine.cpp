@@ -66,16 +66,6 @@ void push(std::vector<Piece>& p, const Piece& x) {
 // The max over inputs on (lo, hi] where each input is one piece; ties go to
 // the lowest input index (DESIGN §4), as in engine/freshness.cpp.
 void combine(const std::vector<const Piece*>& current, int64_t lo, int64_t hi, std::vector<Piece>& out) {
-  {
-    // The common case: every input constant; the first largest wins.
-    const Piece* best = current[0];
-    bool constants = best->kind == kConstant;
-    for (size_t i = 1; i < current.size() && constants; ++i) {
-      constants = current[i]->kind == kConstant;
-      if (current[i]->value > best->value) best = current[i];
-    }
-    if (constants) return push(out, {hi, best->value, best->origin, kConstant});
-  }
   int never_i = -1, const_i = -1, shift_i = -1;
   int64_t const_value = 0, shift_value = 0;
   for (size_t i = 0; i < current.size(); ++i) {
@@ -348,37 +338,35 @@ void max_of_inputs(const std::vector<const std::vector<Piece>*>& inputs, int64_t
   cursor.assign(k, 0);
   current.resize(k);
   int64_t lo = kBelow;
+  const Piece* refused = nullptr;  // a piece that was found not to dominate to its end: not tried again
   while (true) {
     int64_t hi = kForever;
+    const Piece* best = nullptr;  // the first largest constant, when every current piece is constant
+    bool constants = true;
     for (size_t i = 0; i < k; ++i) {
-      current[i] = &(*inputs[i])[cursor[i]];
-      hi = std::min(hi, current[i]->upto);
+      const Piece* p = &(*inputs[i])[cursor[i]];
+      current[i] = p;
+      hi = std::min(hi, p->upto);
+      constants = constants && p->kind == kConstant;
+      if (!best || p->value > best->value) best = p;
     }
-    if (lo >= jump_from && hi < kForever) {
-      // The constant piece with the largest value (lowest index on ties) may dominate to its end.
-      size_t d = k;
-      for (size_t i = 0; i < k; ++i) {
-        if (current[i]->kind != kConstant) {
-          d = k;
-          break;
-        }
-        if (d == k || current[i]->value > current[d]->value) d = i;
-      }
-      if (d < k && current[d]->upto > hi && current[d]->upto < kForever) {
-        const int64_t end = current[d]->upto, value = current[d]->value;
+    if (!constants) {
+      combine(current, lo, hi, out);
+    } else {
+      if (best->upto > hi && best->upto < kForever && best != refused && lo >= jump_from) {
+        // Does `best` dominate every other input up to its end? Values only grow with w.
+        const size_t d = static_cast<size_t>(std::find(current.begin(), current.end(), best) - current.begin());
+        const int64_t end = best->upto, value = best->value;
         bool dominates = true;
         for (size_t j = 0; j < k && dominates; ++j) {
           if (j == d) continue;
-          const size_t at = piece_reaching(*inputs[j], cursor[j], end);
-          const Piece& p = (*inputs[j])[at];
+          const Piece& p = (*inputs[j])[piece_reaching(*inputs[j], cursor[j], end)];
           if (p.kind == kNever) dominates = false;
-          else {
-            const int64_t v = p.kind == kConstant ? p.value : end + p.value;
-            dominates = j < d ? v < value : v <= value;
-          }
+          else dominates = j < d ? (p.kind == kConstant ? p.value : end + p.value) < value
+                                 : (p.kind == kConstant ? p.value : end + p.value) <= value;
         }
         if (dominates) {
-          push(out, {end, value, current[d]->origin, kConstant});
+          push(out, {end, value, best->origin, kConstant});
           for (size_t j = 0; j < k; ++j) {
             cursor[j] = piece_reaching(*inputs[j], cursor[j], end);
             if ((*inputs[j])[cursor[j]].upto == end) ++cursor[j];
@@ -386,9 +374,10 @@ void max_of_inputs(const std::vector<const std::vector<Piece>*>& inputs, int64_t
           lo = end;
           continue;
         }
+        refused = best;
       }
+      push(out, {hi, best->value, best->origin, kConstant});
     }
-    combine(current, lo, hi, out);
     if (hi >= kForever) return;
     for (size_t i = 0; i < k; ++i) {
       if (current[i]->upto == hi) ++cursor[i];
