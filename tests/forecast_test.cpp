@@ -286,6 +286,7 @@ TEST_CASE("every draw agrees with the freshness engine given the same deliveries
   const LocalDays from = LocalDays(date::year(2026) / 3 / 1);  // the window spans the 2026-03-08 US change
   const int days = 14;
   int compared_runs = 0, late_runs = 0;
+  size_t live = 0, doomed = 0;
   for (int index = 0; index < 40; ++index) {
     const std::string text = random_forecast_plan(rng, index);
     INFO(text);
@@ -305,8 +306,17 @@ TEST_CASE("every draw agrees with the freshness engine given the same deliveries
     for (int draw = 0; draw < 6; ++draw) {
       const DrawMode mode = draw % 2 ? DrawMode::whole_days : DrawMode::independent;
       const uint64_t seed = stream_seed(index, 9, static_cast<uint64_t>(draw));
-      DrawResult result;
+      DrawResult result, partial;
       engine.run_draw(fitted, mode, seed, scratch.get(), &result);
+      // A partial draw (live runs only) agrees with the full one; doomed runs
+      // fail and settled ones are on time in the full draw.
+      engine.run_draw(fitted, mode, seed, scratch.get(), &partial, false);
+      for (size_t i = 0; i < result.ok.size(); ++i) {
+        INFO("drawn run " << i << (engine.doomed(i) ? " (doomed)" : ""));
+        REQUIRE(partial.ok[i] == result.ok[i]);
+      }
+      live += engine.live_count();
+      doomed += engine.doomed_count();
       ObservedDeliveries observed = engine.deliveries(fitted, mode, seed);
       Evaluation ev = evaluate(plan, from, days, &observed);
       std::map<std::pair<int, int64_t>, const RunResult*> by_run;
@@ -338,7 +348,10 @@ TEST_CASE("every draw agrees with the freshness engine given the same deliveries
       }
     }
   }
-  INFO(compared_runs << " runs compared, " << late_runs << " not on time");
+  INFO(compared_runs << " runs compared, " << late_runs << " not on time; " << live << " live, " << doomed
+                     << " doomed");
+  CHECK(live > 0);
+  CHECK(doomed > 0);
   CHECK(late_runs > compared_runs / 20);
   CHECK(late_runs < compared_runs);
 }

@@ -35,6 +35,10 @@ struct DrawEngine::DrawnNode {
   std::vector<Occurrence> occurrences;  // monitored: the synthesized occurrences, ascending
 };
 
+namespace {
+struct SweepCursor;
+}  // namespace
+
 struct DrawEngine::Scratch {
   std::vector<std::vector<Piece>> profiles;   // per drawn slot
   std::vector<std::vector<int64_t>> landed;   // per drawn slot (monitored): landing per occurrence
@@ -44,7 +48,7 @@ struct DrawEngine::Scratch {
   std::vector<int32_t> origin;                // per query
   std::vector<int32_t> run_origins;
   std::vector<const std::vector<Piece>*> inputs;
-  std::vector<size_t> cursor;
+  std::vector<SweepCursor> sweep;
   std::vector<const Piece*> current;
 };
 
@@ -52,7 +56,7 @@ namespace {
 
 using Piece = DrawEngine::Piece;
 
-void push(std::vector<Piece>& p, const Piece& x) {
+inline __attribute__((always_inline)) void push(std::vector<Piece>& p, const Piece& x) {
   if (!p.empty()) {
     Piece& last = p.back();
     if (last.kind == x.kind && last.origin == x.origin && (x.kind == kNever || last.value == x.value)) {
@@ -311,19 +315,26 @@ void observed_profile(int n, const std::vector<DrawEngine::Occurrence>& occurren
   for (size_t i = reversed.size(); i-- > 0;) push(p, reversed[i]);
 }
 
-// The first index at or after `from` whose piece reaches `w` (galloping, then binary search).
-size_t piece_reaching(const std::vector<Piece>& pieces, size_t from, int64_t w) {
-  size_t step = 1, hi = from;
-  while (hi < pieces.size() && pieces[hi].upto < w) {
-    from = hi + 1;
-    hi += step;
+// One input's position in a merge sweep.
+struct SweepCursor {
+  const Piece* at;
+  const Piece* last;  // the final piece (upto kForever)
+};
+
+// The first piece at or after `from` that reaches `w` (galloping, then binary
+// search); the final piece reaches every w.
+const Piece* piece_reaching(const Piece* from, const Piece* last, int64_t w) {
+  if (from->upto >= w) return from;
+  size_t step = 1;
+  const Piece* below = from;  // known to end before w
+  while (true) {
+    const Piece* probe = below + step > last ? last : below + step;
+    if (probe->upto >= w) {
+      return std::lower_bound(below + 1, probe + 1, w, [](const Piece& p, int64_t x) { return p.upto < x; });
+    }
+    below = probe;
     step *= 2;
   }
-  hi = std::min(hi, pieces.size() - 1);
-  return static_cast<size_t>(std::lower_bound(pieces.begin() + static_cast<std::ptrdiff_t>(from),
-                                              pieces.begin() + static_cast<std::ptrdiff_t>(hi) + 1, w,
-                                              [](const Piece& p, int64_t x) { return p.upto < x; }) -
-                             pieces.begin());
 }
 
 // The max over the inputs' profiles, by one sweep of their breakpoints. E is
@@ -331,45 +342,52 @@ size_t piece_reaching(const std::vector<Piece>& pieces, size_t from, int64_t w) 
 // input's constant piece beats every other input's value at that piece's
 // end, it beats them on the whole piece: the sweep then jumps to its end
 // instead of visiting the others' breakpoints one by one (an hourly feed
-// under a daily one costs one step a day, not 24).
-void max_of_inputs(const std::vector<const std::vector<Piece>*>& inputs, int64_t jump_from, std::vector<size_t>& cursor,
-                   std::vector<const Piece*>& current, std::vector<Piece>& out) {
+// under a daily one costs one step a day, not 24). A piece found not to
+// dominate is not tried again.
+void max_of_inputs(const std::vector<const std::vector<Piece>*>& inputs, int64_t jump_from,
+                   std::vector<SweepCursor>& cursor, std::vector<const Piece*>& current, std::vector<Piece>& out) {
   const size_t k = inputs.size();
-  cursor.assign(k, 0);
+  cursor.resize(k);
   current.resize(k);
+  for (size_t i = 0; i < k; ++i) cursor[i] = {inputs[i]->data(), inputs[i]->data() + inputs[i]->size() - 1};
+  SweepCursor* const c = cursor.data();
   int64_t lo = kBelow;
-  const Piece* refused = nullptr;  // a piece that was found not to dominate to its end: not tried again
+  const Piece* refused = nullptr;
   while (true) {
-    int64_t hi = kForever;
-    const Piece* best = nullptr;  // the first largest constant, when every current piece is constant
-    bool constants = true;
-    for (size_t i = 0; i < k; ++i) {
-      const Piece* p = &(*inputs[i])[cursor[i]];
-      current[i] = p;
+    int64_t hi = c[0].at->upto;
+    const Piece* best = c[0].at;  // the first largest value
+    bool constants = best->kind == kConstant;
+    for (size_t i = 1; i < k; ++i) {
+      const Piece* p = c[i].at;
       hi = std::min(hi, p->upto);
       constants = constants && p->kind == kConstant;
-      if (!best || p->value > best->value) best = p;
+      if (p->value > best->value) best = p;
     }
     if (!constants) {
+      for (size_t i = 0; i < k; ++i) current[i] = c[i].at;
       combine(current, lo, hi, out);
     } else {
       if (best->upto > hi && best->upto < kForever && best != refused && lo >= jump_from) {
         // Does `best` dominate every other input up to its end? Values only grow with w.
-        const size_t d = static_cast<size_t>(std::find(current.begin(), current.end(), best) - current.begin());
+        size_t d = 0;
+        while (c[d].at != best) ++d;
         const int64_t end = best->upto, value = best->value;
         bool dominates = true;
         for (size_t j = 0; j < k && dominates; ++j) {
           if (j == d) continue;
-          const Piece& p = (*inputs[j])[piece_reaching(*inputs[j], cursor[j], end)];
-          if (p.kind == kNever) dominates = false;
-          else dominates = j < d ? (p.kind == kConstant ? p.value : end + p.value) < value
-                                 : (p.kind == kConstant ? p.value : end + p.value) <= value;
+          const Piece* p = piece_reaching(c[j].at, c[j].last, end);
+          if (p->kind == kNever) {
+            dominates = false;
+          } else {
+            const int64_t v = p->kind == kConstant ? p->value : end + p->value;
+            dominates = j < d ? v < value : v <= value;
+          }
         }
         if (dominates) {
           push(out, {end, value, best->origin, kConstant});
           for (size_t j = 0; j < k; ++j) {
-            cursor[j] = piece_reaching(*inputs[j], cursor[j], end);
-            if ((*inputs[j])[cursor[j]].upto == end) ++cursor[j];
+            c[j].at = piece_reaching(c[j].at, c[j].last, end);
+            if (c[j].at->upto == end) ++c[j].at;
           }
           lo = end;
           continue;
@@ -380,7 +398,7 @@ void max_of_inputs(const std::vector<const std::vector<Piece>*>& inputs, int64_t
     }
     if (hi >= kForever) return;
     for (size_t i = 0; i < k; ++i) {
-      if (current[i]->upto == hi) ++cursor[i];
+      if (c[i].at->upto == hi) ++c[i].at;
     }
     lo = hi;
   }
@@ -476,7 +494,7 @@ void DrawEngine::build(int n, Scratch* s, std::vector<Piece>& out) const {
   s->inputs.clear();
   for (int i : node.inputs) s->inputs.push_back(&profile_of(i, s));
   s->merged.clear();
-  max_of_inputs(s->inputs, w_lo_ - 1, s->cursor, s->current, s->merged);
+  max_of_inputs(s->inputs, w_lo_ - 1, s->sweep, s->current, s->merged);
   derive(n, s->merged, out);
 }
 
@@ -516,14 +534,14 @@ void DrawEngine::answer(size_t feature_range, const std::vector<Piece>& profile,
 // the distinct origins of the inputs that decided it (the non-optional late
 // ones when it fails, else the optional late ones).
 bool DrawEngine::judge(size_t run, const std::vector<int64_t>& ready, const std::vector<int32_t>& origin,
-                       std::vector<int32_t>& origins) const {
+                       std::vector<int32_t>& origins, bool skip_sure) const {
   const int64_t at = run_at_[run];
   origins.clear();
   size_t required_late = 0;  // origins[0, required_late): of late non-optional inputs; the rest: optional ones
   bool degraded = false;
   for (uint32_t k = run_input_begin_[run]; k < run_input_begin_[run + 1]; ++k) {
     const auto [q, optional] = run_inputs_[k];
-    if (ready[q] <= at) continue;
+    if (ready[q] <= at || (skip_sure && sure_on_time_[k])) continue;
     const int32_t o = origin[q];
     if (!optional) {
       if (std::find(origins.begin(), origins.begin() + static_cast<std::ptrdiff_t>(required_late), o) !=
@@ -577,6 +595,88 @@ void DrawEngine::evaluate_fixed_runs() {
     fixed_ok_[run] = 0;
     fixed_origins_[run].assign(origins.begin(), origins.end());
   }
+  classify_drawn_runs(feature_drawn);
+}
+
+// Every landing of every draw lies between each monitored node's earliest
+// recorded offset and its latest (or missing, when it has ever been missing),
+// and E only grows with any landing. So the answers with all landings at
+// their earliest are lower bounds for every draw, with all at their latest
+// upper bounds: an input late even then is late in every draw, one on time
+// even then is on time in every draw.
+void DrawEngine::bound_answers(bool earliest, std::vector<int64_t>& ready) const {
+  ScratchPtr s = make_scratch();
+  for (size_t slot = 0; slot < drawn_nodes_.size(); ++slot) {
+    const DrawnNode& d = *drawn_nodes_[slot];
+    if (d.model < 0) continue;
+    int64_t low = INT64_MAX, high = INT64_MIN;
+    bool missing = false;
+    for (const HistoricalOccurrence& h : models_.models[static_cast<size_t>(d.model)].history) {
+      if (h.outcome == kMissingOccurrence) {
+        missing = true;
+        continue;
+      }
+      low = std::min(low, h.outcome);
+      high = std::max(high, h.outcome);
+    }
+    const bool never = earliest ? low == INT64_MAX : (missing || high == INT64_MIN);
+    for (size_t j = 0; j < d.occurrences.size(); ++j) {
+      const Occurrence& o = d.occurrences[j];
+      s->landed[slot][j] = never ? kNotReady : std::max(o.at + (earliest ? low : high), o.data_end);
+    }
+  }
+  for (size_t slot = 0; slot < drawn_order_.size(); ++slot) build(drawn_order_[slot], s.get(), s->profiles[slot]);
+  for (size_t f : drawn_features_) {
+    answer(f, s->profiles[static_cast<size_t>(drawn_slot_[static_cast<size_t>(feature_queries_[f].first)])], s->ready,
+           s->origin);
+  }
+  ready = s->ready;
+}
+
+void DrawEngine::classify_drawn_runs(const std::vector<uint8_t>& feature_drawn) {
+  std::vector<int64_t> earliest, latest;
+  bound_answers(true, earliest);
+  bound_answers(false, latest);
+  sure_on_time_.assign(run_inputs_.size(), 0);
+  std::vector<uint8_t> node_live(plan_.nodes.size(), 0);
+  for (size_t i = 0; i < drawn_runs_.size(); ++i) {
+    const uint32_t run = drawn_runs_[i];
+    const int64_t at = run_at_[run];
+    bool doomed = false, settled = true;
+    for (uint32_t k = run_input_begin_[run]; k < run_input_begin_[run + 1]; ++k) {
+      const auto [q, optional] = run_inputs_[k];
+      const bool drawn = feature_drawn[static_cast<size_t>(query_feature_[q])] != 0;
+      const int64_t low = drawn ? earliest[q] : fixed_ready_[q], high = drawn ? latest[q] : fixed_ready_[q];
+      if (high <= at) sure_on_time_[k] = 1;
+      else settled = false;
+      if (low > at && !optional) doomed = true;
+    }
+    doomed_.push_back(doomed ? 1 : settled ? 2 : 0);
+    if (doomed) ++doomed_count_;
+    if (doomed || settled) continue;
+    live_runs_.push_back(static_cast<uint32_t>(i));
+    for (uint32_t k = run_input_begin_[run]; k < run_input_begin_[run + 1]; ++k) {
+      if (!sure_on_time_[k]) node_live[static_cast<size_t>(query_feature_[run_inputs_[k].first])] = 1;
+    }
+  }
+  for (size_t slot = drawn_order_.size(); slot-- > 0;) {
+    const int n = drawn_order_[slot];
+    if (!node_live[static_cast<size_t>(n)] || drawn_nodes_[slot]->model >= 0) continue;
+    for (int i : plan_.nodes[static_cast<size_t>(n)].inputs) node_live[static_cast<size_t>(i)] = 1;
+  }
+  for (size_t slot = 0; slot < drawn_order_.size(); ++slot) {
+    if (node_live[static_cast<size_t>(drawn_order_[slot])]) live_slots_.push_back(static_cast<uint32_t>(slot));
+  }
+  for (size_t f : drawn_features_) {
+    if (node_live[static_cast<size_t>(feature_queries_[f].first)]) live_features_.push_back(f);
+  }
+  for (int pass = 0; pass < 2; ++pass) {
+    for (size_t slot = 0; slot < drawn_nodes_.size(); ++slot) {
+      if (drawn_nodes_[slot]->model < 0 || (node_live[static_cast<size_t>(drawn_order_[slot])] != 0) != (pass == 0)) continue;
+      sample_order_.push_back(static_cast<uint32_t>(slot));
+    }
+    if (pass == 0) live_monitored_ = sample_order_.size();
+  }
 }
 
 OutcomeTables OutcomeTables::fitted(const LandingModels& models) {
@@ -612,7 +712,8 @@ OutcomeTables OutcomeTables::resampled(std::mt19937_64& rng) const {
   return out;
 }
 
-void DrawEngine::sample(const OutcomeTables& tables, DrawMode mode, std::mt19937_64& rng, Scratch* s) const {
+void DrawEngine::sample(const OutcomeTables& tables, DrawMode mode, std::mt19937_64& rng, Scratch* s,
+                        bool full) const {
   const bool whole_days = mode == DrawMode::whole_days;
   if (whole_days) {
     for (size_t i = 0; i < dates_.size(); ++i) {
@@ -620,9 +721,12 @@ void DrawEngine::sample(const OutcomeTables& tables, DrawMode mode, std::mt19937
       s->day_pick[i] = candidates.empty() ? INT32_MIN : candidates[uniform_below(rng, candidates.size())];
     }
   }
-  for (size_t slot = 0; slot < drawn_nodes_.size(); ++slot) {
+  // Live nodes first, so that a draw gives them the same outcomes whether or
+  // not it samples the others.
+  const size_t count = full ? sample_order_.size() : live_monitored_;
+  for (size_t i = 0; i < count; ++i) {
+    const size_t slot = sample_order_[i];
     const DrawnNode& d = *drawn_nodes_[slot];
-    if (d.model < 0) continue;
     const OutcomeTables::NodeTables& t = tables.nodes[static_cast<size_t>(d.model)];
     const DayOutcomes& days = day_outcomes_[static_cast<size_t>(d.model)];
     std::vector<int64_t>& landed = s->landed[slot];
@@ -650,29 +754,38 @@ void DrawEngine::sample(const OutcomeTables& tables, DrawMode mode, std::mt19937
 }
 
 void DrawEngine::run_draw(const OutcomeTables& tables, DrawMode mode, uint64_t draw_seed, Scratch* s,
-                          DrawResult* result) const {
-  std::mt19937_64 rng(draw_seed);
-  sample(tables, mode, rng, s);
-  for (size_t slot = 0; slot < drawn_order_.size(); ++slot) build(drawn_order_[slot], s, s->profiles[slot]);
-  for (size_t f : drawn_features_) {
-    answer(f, s->profiles[static_cast<size_t>(drawn_slot_[static_cast<size_t>(feature_queries_[f].first)])], s->ready,
-           s->origin);
-  }
+                          DrawResult* result, bool full) const {
   result->ok.assign(drawn_runs_.size(), 0);
   result->late_origins.clear();
-  for (size_t i = 0; i < drawn_runs_.size(); ++i) {
-    if (judge(drawn_runs_[i], s->ready, s->origin, s->run_origins)) {
+  if (!full && live_runs_.empty()) {
+    for (size_t i = 0; i < drawn_runs_.size(); ++i) result->ok[i] = doomed_[i] == 2;
+    return;
+  }
+  std::mt19937_64 rng(draw_seed);
+  sample(tables, mode, rng, s, full);
+  auto judge_drawn = [&](size_t i) {
+    if (judge(drawn_runs_[i], s->ready, s->origin, s->run_origins, !full)) {
       result->ok[i] = 1;
-      continue;
+      return;
     }
     for (int32_t o : s->run_origins) result->late_origins.push_back({static_cast<int32_t>(i), o});
+  };
+  if (full) {
+    for (size_t slot = 0; slot < drawn_order_.size(); ++slot) build(drawn_order_[slot], s, s->profiles[slot]);
+    for (size_t f : drawn_features_) answer(f, s->profiles[static_cast<size_t>(drawn_slot_[static_cast<size_t>(feature_queries_[f].first)])], s->ready, s->origin);
+    for (size_t i = 0; i < drawn_runs_.size(); ++i) judge_drawn(i);
+    return;
   }
+  for (size_t i = 0; i < drawn_runs_.size(); ++i) result->ok[i] = doomed_[i] == 2;  // settled on time
+  for (uint32_t slot : live_slots_) build(drawn_order_[slot], s, s->profiles[slot]);
+  for (size_t f : live_features_) answer(f, s->profiles[static_cast<size_t>(drawn_slot_[static_cast<size_t>(feature_queries_[f].first)])], s->ready, s->origin);
+  for (uint32_t i : live_runs_) judge_drawn(i);
 }
 
 ObservedDeliveries DrawEngine::deliveries(const OutcomeTables& tables, DrawMode mode, uint64_t draw_seed) const {
   ScratchPtr s = make_scratch();
   std::mt19937_64 rng(draw_seed);
-  sample(tables, mode, rng, s.get());
+  sample(tables, mode, rng, s.get(), true);
   ObservedDeliveries out(plan_.nodes.size());
   for (size_t slot = 0; slot < drawn_nodes_.size(); ++slot) {
     const DrawnNode& d = *drawn_nodes_[slot];

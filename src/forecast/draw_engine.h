@@ -133,6 +133,14 @@ class DrawEngine {
   const std::vector<int>& fixed_origins(size_t run) const { return fixed_origins_[run]; }
   /// The drawn runs (run numbers, ascending); DrawResult::ok is in this order.
   const std::vector<uint32_t>& drawn_runs() const { return drawn_runs_; }
+  /// A drawn run that fails in every draw: a non-optional input is late even
+  /// when every monitored node lands at its earliest recorded offset. Its
+  /// status needs no draw, only the attribution of its lateness does.
+  bool doomed(size_t drawn_index) const { return doomed_[drawn_index] == 1; }
+  size_t doomed_count() const { return doomed_count_; }
+  /// Drawn runs whose status a draw can change (neither doomed nor on time
+  /// even with every monitored node at its latest recorded offset).
+  size_t live_count() const { return live_runs_.size(); }
   /// Nodes whose profiles each draw rebuilds (for benchmarks).
   size_t drawn_node_count() const { return drawn_order_.size(); }
 
@@ -146,8 +154,12 @@ class DrawEngine {
 
   /// Evaluates one draw: outcomes from `tables` (built from the same models)
   /// with a generator seeded by `draw_seed`. Deterministic in its arguments.
-  void run_draw(const OutcomeTables& tables, DrawMode mode, uint64_t draw_seed, Scratch* scratch,
-                DrawResult* result) const;
+  /// With `full` false, only live runs are evaluated, and only the nodes they
+  /// need are rebuilt: doomed runs get ok 0 and no origins, settled ones ok 1.
+  /// Live nodes are sampled first, so a live run's result is the same in a
+  /// full and a partial draw with the same seed.
+  void run_draw(const OutcomeTables& tables, DrawMode mode, uint64_t draw_seed, Scratch* scratch, DrawResult* result,
+                bool full = true) const;
 
   /// The deliveries one draw synthesizes, as observed deliveries indexed like
   /// plan.nodes (present for every monitored node of the cone). For tests:
@@ -171,7 +183,7 @@ class DrawEngine {
   void compile_whole_days();
   void build_fixed_profiles();
   void evaluate_fixed_runs();
-  void sample(const OutcomeTables& tables, DrawMode mode, std::mt19937_64& rng, Scratch* s) const;
+  void sample(const OutcomeTables& tables, DrawMode mode, std::mt19937_64& rng, Scratch* s, bool full) const;
   TriggerHit next_trigger(int node, int64_t v) const;
   void derive(int node, const std::vector<Piece>& max_of_inputs, std::vector<Piece>& out) const;
   const std::vector<Piece>& profile_of(int node, const Scratch* s) const;
@@ -179,7 +191,9 @@ class DrawEngine {
   void answer(size_t feature_range, const std::vector<Piece>& profile, std::vector<int64_t>& ready,
               std::vector<int32_t>& origin) const;
   bool judge(size_t run, const std::vector<int64_t>& ready, const std::vector<int32_t>& origin,
-             std::vector<int32_t>& origins) const;
+             std::vector<int32_t>& origins, bool skip_sure = false) const;
+  void bound_answers(bool earliest, std::vector<int64_t>& ready) const;
+  void classify_drawn_runs(const std::vector<uint8_t>& feature_drawn);
 
   const Plan& plan_;
   const LandingModels& models_;
@@ -194,6 +208,14 @@ class DrawEngine {
   std::vector<int32_t> drawn_index_;                     // per run: index in drawn_runs_, -1 fixed
   std::vector<uint32_t> drawn_runs_;
   std::vector<uint8_t> fixed_ok_;
+  std::vector<uint8_t> doomed_;                          // per drawn run: 1 doomed, 2 settled on time, 0 live
+  std::vector<uint8_t> sure_on_time_;                    // per run input: on time in every draw
+  size_t doomed_count_ = 0;
+  std::vector<uint32_t> live_runs_;                      // drawn runs not doomed (indices into drawn_runs_)
+  std::vector<uint32_t> live_slots_;                     // drawn slots those need, topological order
+  std::vector<size_t> live_features_;                    // feature ranges those need
+  std::vector<uint32_t> sample_order_;                   // monitored drawn slots: live ones first
+  size_t live_monitored_ = 0;                            // how many of sample_order_ are live
   std::vector<std::vector<int>> fixed_origins_;
 
   // Queries, sorted by (feature, w); per queried feature its range.

@@ -21,12 +21,13 @@ struct Tally {
   std::vector<int64_t> drawn_ok;                      // per drawn run: draws on time
   std::vector<int64_t> ok_sum, ok_squares;            // per target, over draws: runs on time, and its square
   std::vector<int64_t> late;                          // per target: (draw, run) pairs not on time
-  std::vector<std::map<int, int64_t>> late_by_node;   // per target
+  std::vector<std::map<int, int64_t>> late_by_node;   // per target, live runs over every draw
+  std::vector<std::map<int, int64_t>> doomed_by_node; // per target, doomed runs over the attribution draws
   std::vector<std::vector<int64_t>> rep_sum, rep_squares;  // per replicate, per target
 
   Tally(size_t drawn_runs, size_t targets, size_t replicates)
       : drawn_ok(drawn_runs, 0), ok_sum(targets, 0), ok_squares(targets, 0), late(targets, 0),
-        late_by_node(targets), rep_sum(replicates, std::vector<int64_t>(targets, 0)),
+        late_by_node(targets), doomed_by_node(targets), rep_sum(replicates, std::vector<int64_t>(targets, 0)),
         rep_squares(replicates, std::vector<int64_t>(targets, 0)) {}
 
   void add(const Tally& o) {
@@ -36,6 +37,7 @@ struct Tally {
       ok_squares[t] += o.ok_squares[t];
       late[t] += o.late[t];
       for (const auto& [node, n] : o.late_by_node[t]) late_by_node[t][node] += n;
+      for (const auto& [node, n] : o.doomed_by_node[t]) doomed_by_node[t][node] += n;
     }
     for (size_t b = 0; b < rep_sum.size(); ++b) {
       for (size_t t = 0; t < ok_sum.size(); ++t) {
@@ -72,14 +74,15 @@ struct Job {
         const int first = unit * kDrawsPerUnit, last = std::min(options.draws, first + kDrawsPerUnit);
         for (int d = first; d < last; ++d) {
           engine.run_draw(fitted, options.mode, stream_seed(options.seed, kDrawStream, static_cast<uint64_t>(d)),
-                          scratch.get(), &result);
+                          scratch.get(), &result, d < kAttributionDraws);
           count_on_time(engine, fixed_on_time, result, &on_time);
           for (size_t i = 0; i < drawn.size(); ++i) {
             tally->drawn_ok[i] += result.ok[i];
             if (!result.ok[i]) ++tally->late[engine.target_of(drawn[i])];
           }
           for (const auto& [i, node] : result.late_origins) {
-            ++tally->late_by_node[engine.target_of(drawn[static_cast<size_t>(i)])][node];
+            const size_t t = engine.target_of(drawn[static_cast<size_t>(i)]);
+            ++(engine.doomed(static_cast<size_t>(i)) ? tally->doomed_by_node[t] : tally->late_by_node[t])[node];
           }
           for (size_t t = 0; t < on_time.size(); ++t) {
             tally->ok_sum[t] += on_time[t];
@@ -94,7 +97,7 @@ struct Job {
       for (int j = 0; j < options.replicate_draws(); ++j) {
         engine.run_draw(tables, options.mode,
                         stream_seed(options.seed, kReplicateDrawStream, (b << 32) | static_cast<uint64_t>(j)),
-                        scratch.get(), &result);
+                        scratch.get(), &result, false);
         count_on_time(engine, fixed_on_time, result, &on_time);
         for (size_t t = 0; t < on_time.size(); ++t) {
           tally->rep_sum[b][t] += on_time[t];
@@ -143,7 +146,11 @@ TargetForecast summarise(const DrawEngine& engine, const Tally& tally, size_t t,
   f.runs = engine.targets()[t].runs.size();
   const double draws = static_cast<double>(options.draws);
   int64_t late = tally.late[t];
-  std::map<int, int64_t> late_by_node = tally.late_by_node[t];
+  // Doomed runs' origins were counted in the attribution draws only: scale them to every draw.
+  const double scale = draws / static_cast<double>(std::min(options.draws, kAttributionDraws));
+  std::map<int, double> late_by_node;
+  for (const auto& [node, n] : tally.late_by_node[t]) late_by_node[node] += static_cast<double>(n);
+  for (const auto& [node, n] : tally.doomed_by_node[t]) late_by_node[node] += static_cast<double>(n) * scale;
   std::vector<int> drawn_position(engine.run_count(), -1);
   for (size_t i = 0; i < engine.drawn_runs().size(); ++i) drawn_position[engine.drawn_runs()[i]] = static_cast<int>(i);
   for (size_t run = first; run < first + f.runs; ++run) {
@@ -166,11 +173,11 @@ TargetForecast summarise(const DrawEngine& engine, const Tally& tally, size_t t,
   if (options.replicates > 0) {
     f.interval = bootstrap_interval(f.probability, tally, t, runs, static_cast<double>(options.replicate_draws()));
   }
-  int64_t most = 0;
+  double most = 0;
   for (const auto& [node, n] : late_by_node) {  // ascending node index: ties keep the lower
     if (n > most) most = n, f.most_often_late = node;
   }
-  if (most > 0) f.most_often_late_share = static_cast<double>(most) / static_cast<double>(late);
+  if (most > 0) f.most_often_late_share = std::min(1.0, most / static_cast<double>(late));
   return f;
 }
 

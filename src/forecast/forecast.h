@@ -31,7 +31,11 @@
 // - *Most often late*: among (draw, run) pairs not on time, the node that
 //   starts the chain of a deciding input (a non-optional late input when the
 //   run fails, else an optional one), counted once per pair; ties go to the
-//   lower node index. Its share is of the pairs not on time.
+//   lower node index. Its share is of the pairs not on time. A run that an
+//   unmonitored late input fails in every draw needs no draw for its status;
+//   the origins of its late inputs are counted in the first kAttributionDraws
+//   draws and scaled to all of them (so the other draws rebuild only what the
+//   remaining runs need).
 //
 // Reproducibility. Draw d of the fitted models uses the generator seeded
 // stream_seed(seed, 1, d); replicate b resamples with stream_seed(seed, 2, b)
@@ -54,6 +58,10 @@ namespace readyby {
 
 inline constexpr int kDefaultDraws = 2000;
 inline constexpr int kBootstrapReplicates = 100;
+/// Runs that fail in every draw because an unmonitored input is late
+/// (DrawEngine::doomed) are evaluated in this many draws only, for the
+/// attribution of their lateness; their counts are scaled to all draws.
+inline constexpr int kAttributionDraws = 200;
 
 struct ForecastOptions {
   int draws = kDefaultDraws;           // >= 1
