@@ -61,7 +61,7 @@ inline constexpr int kBootstrapReplicates = 100;
 /// Runs that fail in every draw because an unmonitored input is late
 /// (DrawEngine::doomed) are evaluated in this many draws only, for the
 /// attribution of their lateness; their counts are scaled to all draws.
-inline constexpr int kAttributionDraws = 200;
+inline constexpr int kAttributionDraws = 100;
 
 struct ForecastOptions {
   int draws = kDefaultDraws;           // >= 1

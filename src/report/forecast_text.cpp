@@ -105,7 +105,10 @@ void write_forecast_text(std::ostream& out, const Plan& plan, const ForecastRepo
     }
     out << right(percent(t.probability), 9) << "  ";
     std::string interval = "—";
-    if (t.interval) interval = fixed(t.interval->low * 100, 0) + "–" + percent(t.interval->high);
+    if (t.interval) {
+      interval = fixed(t.interval->low * 100, 0) + "–" + percent(t.interval->high);
+      if (percent(t.interval->low) == percent(t.interval->high)) interval = percent(t.interval->low);
+    }
     out << pad(interval, 14);
     if (t.most_often_late >= 0) {
       out << id_of(plan, t.most_often_late) << " (" << percent(t.most_often_late_share) << " of late runs)";
