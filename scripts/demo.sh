@@ -21,9 +21,13 @@ run record pipelines/landing-logs/integration-server.jsonl --plan "$PLAN" --db "
     --map node=task,landed_at=load_end_ts,data_through=watermark,status=state
 run record pipelines/landing-logs/feeds-2026-03.csv --plan "$PLAN" --db "$DB"
 run nightly "$PLAN" --db "$DB" --date 2026-03-03
+# Forecast March from that history (seeded: the same numbers every time), and
+# backtest the forecast against what happened from 2026-02-26 on.
+run forecast "$PLAN" --db "$DB" --from 2026-03-04 --days 28
+run forecast "$PLAN" --db "$DB" --backtest-from 2026-02-26
 # The screening report for two fictional proposals.
 export READYBY_CACHE_DIR="${READYBY_CACHE_DIR:-$PWD/build/cache}"
-run intake pipelines/readmit-30d.proposal.yaml --from 2026-02-22 --days 28
+run intake pipelines/readmit-30d.proposal.yaml --from 2026-02-22 --days 28 --db "$DB"
 run intake pipelines/day-case-return-to-theatre.proposal.yaml --from 2026-02-22 --days 28 --format markdown
 # The report page: calendars, chain timelines, lineage, history and the screening, in one HTML file.
 REPORT="$PWD/build/larkspur-report.html"

@@ -47,6 +47,21 @@ const char kNightlyUsage[] =
     "  N days (default 28). Default --db readyby.db, --format text.\n"
     "  Exit 0 when every run of the day is ok or degraded, 1 when some run fails,\n"
     "  2 on bad input.\n";
+const char kForecastUsage[] =
+    "usage: readyby forecast PLAN [--db FILE] [--from YYYY-MM-DD] [--days N] [--draws N] [--seed S]\n"
+    "                        [--format text|json]\n"
+    "       readyby forecast PLAN --backtest-from YYYY-MM-DD [--days N] [--db FILE] [--draws N] [--seed S]\n"
+    "                        [--format text|json]\n"
+    "  How often will each model run be on time, judged from how the feeds have really landed?\n"
+    "  Samples every monitored feed's landings from its recorded history (landings before the\n"
+    "  window) and evaluates every run with the nightly rules: per model and run time, the share of\n"
+    "  runs on time with a 95% bootstrap interval, and the feed that most often makes them late.\n"
+    "  --backtest-from fits on the history before the date and scores the forecast of the runs\n"
+    "  from it on (to the last recorded landing, or --days) against what nightly finds, beside\n"
+    "  the declared schedule: Brier score and calibration. Draws are independent across feeds\n"
+    "  and deliveries. Defaults: --db readyby.db, --from today in the plan's zone, --days 28,\n"
+    "  --draws 2000, --seed 20260101 (reproducible bit for bit), --format text.\n"
+    "  Exit 0 on success, 2 on bad input.\n";
 const char kCatalogUsage[] =
     "usage: readyby catalog validate [--registry DIR]...\n"
     "       readyby catalog search TEXT [--setting S] [--outcome C] [--limit N] [--format text|json] [--registry DIR]...\n"
@@ -64,12 +79,14 @@ const char kReuseUsage[] =
     "  --registry layers a local registry folder over the shipped one (repeatable).\n"
     "  Exit 0 on success, 2 on invalid input.\n";
 const char kIntakeUsage[] =
-    "usage: readyby intake PROPOSAL [--from YYYY-MM-DD] [--days N] [--registry DIR]...\n"
+    "usage: readyby intake PROPOSAL [--from YYYY-MM-DD] [--days N] [--registry DIR]... [--db FILE]\n"
     "                      [--format text|json|markdown]\n"
     "  One screening report for a proposed model: will its data be there in time (the\n"
     "  proposal's plan and model, checked over [from, from+days)), has an established score\n"
     "  already covered it, can those scores run on time on this plan, and the recommendation:\n"
     "  reuse-and-validate, fix-data-plan-first, close-gaps-or-build or build.\n"
+    "  With --db (a landing history, see record), also forecasts from how the feeds have really\n"
+    "  landed the share of runs on which the model's, and each candidate score's, inputs are fresh.\n"
     "  The proposal must name a plan and a model. Defaults: --from today in the model's zone,\n"
     "  --days 28, --format text (markdown is made to paste into a review ticket).\n"
     "  Exit 0 when every run is ok or degraded, 1 when some run fails, 2 on bad input.\n";
@@ -93,6 +110,8 @@ const std::vector<Command>& command_table() {
       {"check", "will every feature be fresh by every model run?", kCheckUsage, cmd_check},
       {"record", "record landing logs into the history database", kRecordUsage, cmd_record},
       {"nightly", "check one day's runs against what actually landed", kNightlyUsage, cmd_nightly},
+      {"forecast", "how often will each run be on time, judged from the landing history?", kForecastUsage,
+       cmd_forecast},
       {"catalog", "validate, search and show the catalogue of published scores", kCatalogUsage, cmd_catalog},
       {"reuse", "has an established score already covered this proposal?", kReuseUsage, cmd_reuse},
       {"intake", "screen a proposed model: data timing, established scores, recommendation", kIntakeUsage, cmd_intake},

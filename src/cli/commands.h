@@ -30,6 +30,7 @@ int cmd_validate(const std::vector<std::string>& args);
 int cmd_check(const std::vector<std::string>& args);
 int cmd_record(const std::vector<std::string>& args);
 int cmd_nightly(const std::vector<std::string>& args);
+int cmd_forecast(const std::vector<std::string>& args);
 int cmd_catalog(const std::vector<std::string>& args);
 int cmd_reuse(const std::vector<std::string>& args);
 int cmd_intake(const std::vector<std::string>& args);

@@ -89,7 +89,7 @@ std::string intake_json(const IntakeReport& r) {
          ", \"days\": " + std::to_string(r.days) + ",\n \"timing\": " + timing_json(r) + ",\n \"reuse\": " + reuse +
          ",\n \"feasibility\": " + feasibility_json(r.feasibility) +
          ",\n \"recommendation\": " + recommendation_json(r.recommendation) +
-         ",\n \"cautions\": " + json_list(catalogue_cautions()) + "}\n";
+         ",\n \"cautions\": " + json_list(catalogue_cautions()) + ",\n \"forecast\": " + intake_forecast_json(r) + "}\n";
 }
 
 }  // namespace readyby

@@ -16,9 +16,10 @@
 // worst_late_seconds, never}, missing[], late[], unstructured[]},
 // recommendation {decision (reuse-and-validate | fix-data-plan-first |
 // close-gaps-or-build | build), summary, candidate, cheapest_fix, reasons[]},
-// cautions[]. A fix is {kind (land-earlier | move-start | start-later), node,
-// seconds, text, edit, effect, breaks_others}; every fix shown was re-checked
-// and clears every run of its pattern. Times are RFC 3339 in the model's zone.
+// cautions[], forecast (null without --db). A fix is {kind (land-earlier |
+// move-start | start-later), node, seconds, text, edit, effect,
+// breaks_others}; every fix shown was re-checked and clears every run of its
+// pattern. Times are RFC 3339 in the model's zone.
 
 #include <string>
 
@@ -27,6 +28,15 @@
 namespace readyby {
 
 std::string intake_json(const IntakeReport& report);
+
+/// The forecast section of each format (report/intake_forecast.cpp): empty
+/// (JSON: `null`) when the report has no forecast. JSON keys: draws, seed,
+/// model {runs, probability, interval, most_often_late}, candidates[] {id,
+/// name, inputs_forecast, inputs_total, runs, probability, interval,
+/// most_often_late}, unmonitored[], warnings[], notes[].
+std::string intake_forecast_text(const IntakeReport& report);
+std::string intake_forecast_markdown(const IntakeReport& report);
+std::string intake_forecast_json(const IntakeReport& report);
 std::string intake_text(const IntakeReport& report);
 std::string intake_markdown(const IntakeReport& report);
 

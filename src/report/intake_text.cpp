@@ -128,6 +128,7 @@ std::string intake_text(const IntakeReport& r) {
   timing_section(r, &out);
   reuse_section(r, &out);
   feasibility_section(r, &out);
+  out += intake_forecast_text(r);
   out += "\ncautions:\n";
   for (const std::string& c : catalogue_cautions()) out += "  - " + c + "\n";
   return out;
