@@ -116,7 +116,7 @@ TEST_CASE("margins and impact on the demo plan") {
   Outcome impact = run("impact " + kDemo + kWindow);
   INFO(impact.out);
   CHECK(impact.status == 1);
-  CHECK(impact.out.find("4 single points of failure (its failure fails runs of two or more models): lab_results, "
+  CHECK(impact.out.find("4 single points of failure (its failure fails runs of two or more models):\n  lab_results, "
                         "adt_events, labs_clean, admission_source") != std::string::npos);
   Outcome impact_json = run_stdout("impact " + kDemo + kWindow + " --format json");
   CHECK(impact_json.out.starts_with(

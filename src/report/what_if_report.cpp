@@ -57,7 +57,11 @@ void write_what_if_text(std::ostream& out, const WhatIfResult& r) {
       out << "  model " << model.id << " (" << model.zone->name() << ")\n";
       for (const auto& [key, runs] : groups) {
         out << "    " << key << ": " << runs.size() << (runs.size() == 1 ? " run" : " runs") << "\n";
-        for (Instant at : runs) out << "      " << format_local(model.zone->to_local(at)) << "\n";
+        constexpr size_t kShown = 12;
+        for (size_t k = 0; k < runs.size() && k < kShown; ++k) {
+          out << "      " << format_local(model.zone->to_local(runs[k])) << "\n";
+        }
+        if (runs.size() > kShown) out << "      and " << runs.size() - kShown << " more (--format json lists every run)\n";
       }
     }
   }
