@@ -2,8 +2,9 @@
 // re-evaluating its downstream cone), margins (backward pass, then each
 // margin checked by re-evaluating its binding run, or with `full` its whole
 // downstream cone at M and M+1m) and impact, phase by phase.
-// Usage: advice_bench PLAN FROM DAYS [NODE [full]]
-// (NODE: the node to delay for what-if, default the first source).
+// Usage: advice_bench PLAN FROM DAYS [NODE,... [full|what-if]]
+// (NODE: the nodes to delay for what-if, default the first node; `what-if`
+// stops after them).
 #include <chrono>
 #include <cstdio>
 #include <cstdlib>
@@ -39,7 +40,7 @@ std::string since(const Stopwatch& t) {
 
 int main(int argc, char** argv) {
   if (argc < 4) {
-    std::fprintf(stderr, "usage: advice_bench PLAN FROM DAYS [NODE [full]]\n");
+    std::fprintf(stderr, "usage: advice_bench PLAN FROM DAYS [NODE,... [full|what-if]]\n");
     return 2;
   }
   Stopwatch t0;
@@ -57,20 +58,27 @@ int main(int argc, char** argv) {
   std::printf("evaluate: %s (%zu runs, %zu ok; %zu profile pieces)\n", since(t0).c_str(), base.runs.size(), ok,
               base.engine().piece_count());
 
-  int node = argc > 4 ? plan.find_node(argv[4]) : 0;
-  if (node < 0) {
-    std::fprintf(stderr, "no node %s\n", argv[4]);
-    return 2;
+  // what-if: one delay per listed node, each re-evaluated on its own.
+  std::string nodes = argc > 4 ? argv[4] : plan.nodes.front().id;
+  for (size_t start = 0; start <= nodes.size();) {
+    size_t comma = nodes.find(',', start);
+    std::string id = nodes.substr(start, comma == std::string::npos ? std::string::npos : comma - start);
+    start = comma == std::string::npos ? nodes.size() + 1 : comma + 1;
+    int node = plan.find_node(id);
+    if (node < 0) {
+      std::fprintf(stderr, "no node %s\n", id.c_str());
+      return 2;
+    }
+    t0 = Stopwatch();
+    std::vector<Edit> edits = {Edit::delay(node, 30 * 60)};
+    Plan edited = apply_edits(plan, edits);
+    std::string copy = since(t0);
+    Evaluation after = reevaluate(base, edited, edits);
+    std::vector<StatusChange> changes = status_changes(base, after);
+    std::printf("what-if delay %s=PT30M: %s (plan copy %s; %zu profiles rebuilt, %zu runs change)\n", id.c_str(),
+                since(t0).c_str(), copy.c_str(), after.engine().own_profile_count(), changes.size());
   }
-  t0 = Stopwatch();
-  std::vector<Edit> edits = {Edit::delay(node, 30 * 60)};
-  Plan edited = apply_edits(plan, edits);
-  std::string copy = since(t0);
-  Evaluation after = reevaluate(base, edited, edits);
-  std::vector<StatusChange> changes = status_changes(base, after);
-  std::printf("what-if delay %s=PT30M: %s (plan copy %s; %zu profiles rebuilt, %zu runs change)\n",
-              plan.nodes[static_cast<size_t>(node)].id.c_str(), since(t0).c_str(), copy.c_str(),
-              after.engine().own_profile_count(), changes.size());
+  if (argc > 5 && std::string(argv[5]) == "what-if") return 0;
 
   auto run_margins = [&](const char* what, MarginOptions::Check check, const std::vector<Margin>* pass) {
     Stopwatch t;
