@@ -248,54 +248,79 @@ std::vector<Margin> margins(const Plan& plan, const Evaluation& base, MarginOpti
     l.erase(std::unique(l.begin(), l.end(), [](const Limit& a, const Limit& b) { return a.w == b.w; }), l.end());
   }
 
-  // Backward pass: a node's limits are complete once every consumer has
-  // passed its own on; then its margin is read off and its limits pushed to
-  // its inputs and freed.
-  std::vector<int> order = base.lineage_->topological_order();
-  std::vector<Limit> passed;
-  for (auto it = order.rbegin(); it != order.rend(); ++it) {
-    const int n = *it;
-    std::vector<Limit>& mine = limits[static_cast<size_t>(n)];
-    if (mine.empty()) continue;
-    Margin& m = out[static_cast<size_t>(n)];
+  // The least room (L_n(w) - E_n(w)) of each node and the run that sets it;
+  // run -1 until some ok run depends on the node.
+  struct Room {
+    int64_t seconds = INT64_MAX;
+    int32_t run = -1;
+  };
+  std::vector<Room> rooms(n_nodes);
+  auto take = [&](int n, const std::vector<Limit>& list) {
     const std::vector<ProfilePiece>& pieces = engine.profile(n).pieces();
-    const Limit* binding = nullptr;
-    int64_t room = INT64_MAX;
+    Room& room = rooms[static_cast<size_t>(n)];
     size_t piece = 0;  // limits ascend in w: walk the pieces alongside
-    for (const Limit& l : mine) {
+    for (const Limit& l : list) {
       const int64_t w = origin + l.w, latest = origin + l.latest;
       while (piece + 1 < pieces.size() && pieces[piece].upto < w) ++piece;
       const ProfilePiece& p = pieces[piece];
       int64_t r = p.kind == ProfilePiece::Kind::never      ? kNoLimit
                   : p.kind == ProfilePiece::Kind::constant ? latest - p.value
                                                            : latest - (w + p.value);
-      if (r < room || (r == room && l.run < binding->run)) room = r, binding = &l;
+      if (r < room.seconds || (r == room.seconds && l.run < room.run)) room = {r, l.run};
     }
-    m.room_seconds = room;
-    m.seconds = std::max<int64_t>(0, room) / kMinute * kMinute;
-    m.binding_run = static_cast<size_t>(binding->run);
-    m.binding_model = base.runs[static_cast<size_t>(binding->run)].model;
-    m.binding_at = base.runs[static_cast<size_t>(binding->run)].at;
+  };
 
+  // Backward pass, deepest nodes first (each node after all its consumers):
+  // a node's limits are complete once every consumer has passed its own on;
+  // then its room is read off and its limits, moved through its run time or
+  // fixed start, are passed to its inputs and freed. A source passes nothing
+  // on, so what reaches it is read off at once and never stored. Deepest
+  // first keeps few lists alive at a time.
+  const std::vector<int> topological = base.lineage_->topological_order();
+  std::vector<int> depth(n_nodes, 0);
+  for (int n : topological) {
+    for (int i : plan.nodes[static_cast<size_t>(n)].inputs) {
+      depth[static_cast<size_t>(n)] = std::max(depth[static_cast<size_t>(n)], depth[static_cast<size_t>(i)] + 1);
+    }
+  }
+  std::vector<int> order(topological.rbegin(), topological.rend());
+  std::stable_sort(order.begin(), order.end(),
+                   [&](int a, int b) { return depth[static_cast<size_t>(a)] > depth[static_cast<size_t>(b)]; });
+  std::vector<Limit> passed;
+  for (int n : order) {
+    std::vector<Limit>& mine = limits[static_cast<size_t>(n)];
+    if (mine.empty()) continue;
+    take(n, mine);
     const Node& node = plan.nodes[static_cast<size_t>(n)];
-    if (!node.inputs.empty()) {
-      passed.clear();
-      passed.reserve(mine.size());
-      const int64_t run_time = node.run_time.seconds;
-      if (node.trigger) {
-        LatestOccurrence latest(*node.trigger, *node.zone, plan.calendar(node.calendar));
-        for (const Limit& l : mine) {
-          passed.push_back({l.w, offset(latest.at_or_before(origin + l.latest - run_time), origin), l.run});
-        }
-      } else {
-        for (const Limit& l : mine) passed.push_back({l.w, offset(origin + l.latest - run_time, origin), l.run});
+    passed.clear();
+    passed.reserve(mine.size());
+    const int64_t run_time = node.run_time.seconds;
+    if (node.trigger) {
+      LatestOccurrence latest(*node.trigger, *node.zone, plan.calendar(node.calendar));
+      for (const Limit& l : mine) {
+        passed.push_back({l.w, offset(latest.at_or_before(origin + l.latest - run_time), origin), l.run});
       }
-      std::vector<int> distinct = node.inputs;
-      std::sort(distinct.begin(), distinct.end());
-      distinct.erase(std::unique(distinct.begin(), distinct.end()), distinct.end());
-      for (int i : distinct) merge_limits(&limits[static_cast<size_t>(i)], passed);
+    } else {
+      for (const Limit& l : mine) passed.push_back({l.w, offset(origin + l.latest - run_time, origin), l.run});
     }
     std::vector<Limit>().swap(mine);
+    std::vector<int> distinct = node.inputs;
+    std::sort(distinct.begin(), distinct.end());
+    distinct.erase(std::unique(distinct.begin(), distinct.end()), distinct.end());
+    for (int i : distinct) {
+      if (plan.nodes[static_cast<size_t>(i)].inputs.empty()) take(i, passed);
+      else merge_limits(&limits[static_cast<size_t>(i)], passed);
+    }
+  }
+  for (size_t n = 0; n < n_nodes; ++n) {
+    const Room& room = rooms[n];
+    if (room.run < 0) continue;
+    Margin& m = out[n];
+    m.room_seconds = room.seconds;
+    m.seconds = std::max<int64_t>(0, room.seconds) / kMinute * kMinute;
+    m.binding_run = static_cast<size_t>(room.run);
+    m.binding_model = base.runs[static_cast<size_t>(room.run)].model;
+    m.binding_at = base.runs[static_cast<size_t>(room.run)].at;
   }
 
   if (options.check == MarginOptions::Check::none) return out;
