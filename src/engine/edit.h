@@ -35,6 +35,7 @@
 #include <vector>
 
 #include "engine/check.h"
+#include "plan/lineage.h"
 #include "plan/plan.h"
 #include "time/cron.h"
 
@@ -115,7 +116,12 @@ std::vector<int> edited_nodes(const std::vector<Edit>& edits);
 /// profile changed (or edited by runs/max_age) are recomputed; the rest is
 /// reused. When runs or max_age edits move the queried range of w outside
 /// `base`'s, everything is rebuilt. `base` and `edited` must outlive the result.
-Evaluation reevaluate(const Evaluation& base, const Plan& edited, const std::vector<Edit>& edits);
+/// `cones` (of the plan's lineage), when given, spares preparing them again:
+/// callers that re-evaluate many edits of one plan should pass one.
+/// For many probes of a few runs, build a FreshnessEngine from
+/// base.engine() and call evaluate_run directly instead (no runs copied).
+Evaluation reevaluate(const Evaluation& base, const Plan& edited, const std::vector<Edit>& edits,
+                      const DownstreamCones* cones = nullptr);
 
 /// A run whose status an edit changed.
 struct StatusChange {
