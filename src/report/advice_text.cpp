@@ -189,18 +189,6 @@ std::string describe_cause(const Plan& plan, const Blame& b, const Zone* zone) {
   return "";
 }
 
-std::string edit_text(const Plan& plan, const FixEdit& edit) {
-  switch (edit.kind) {
-    case FixEdit::Kind::delay:
-      return "delay " + plan.nodes[static_cast<size_t>(edit.node)].id + "=" + signed_duration(edit.seconds);
-    case FixEdit::Kind::schedule:
-      return "schedule " + plan.nodes[static_cast<size_t>(edit.node)].id + "=\"" + edit.cron + "\"";
-    case FixEdit::Kind::runs:
-      return "runs " + plan.models[static_cast<size_t>(edit.model)].id + "=\"" + edit.cron + "\"";
-  }
-  return "";
-}
-
 std::string describe_fix(const Plan& plan, const Pattern& p, const Fix& fix) {
   const Model& model = plan.models[static_cast<size_t>(p.model)];
   const LocalDays day = local_day(p.worst_run, model.zone);
@@ -216,16 +204,20 @@ std::string describe_fix(const Plan& plan, const Pattern& p, const Fix& fix) {
                format_duration(n.run_time) + " -> " + format_duration(Duration{n.run_time.seconds - fix.seconds}) +
                "): by " + at(fix.after) + " instead of " + at(fix.before) + on_worst + edit;
       }
+      std::string how;
+      if (fix.edit.kind == EditKind::schedule) {
+        how = ": deliver on \"" + fix.edit.cron->text + "\" instead of \"" + fix.from_cron + "\"";
+      }
       return what(plan, fix.node) + " would have to land by " + at(fix.after) + " instead of " + at(fix.before) +
-             " (" + size + " earlier)" + on_worst + edit;
+             " (" + size + " earlier)" + on_worst + how + edit;
     }
     case FixKind::move_start:
       return what(plan, fix.node) + " would have to start " + size + (fix.later ? " later" : " earlier") + " (\"" +
-             fix.from_cron + "\" -> \"" + fix.edit.cron + "\"): at " + at(fix.after) + " instead of " +
+             fix.from_cron + "\" -> \"" + fix.edit.cron->text + "\"): at " + at(fix.after) + " instead of " +
              at(fix.before) + on_worst + edit;
     case FixKind::start_later:
       return "start the runs of '" + model.id + "' " + size + " later (\"" + fix.from_cron + "\" -> \"" +
-             fix.edit.cron + "\")" + edit;
+             fix.edit.cron->text + "\")" + edit;
   }
   return "";
 }

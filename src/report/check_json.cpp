@@ -52,12 +52,12 @@ std::string changes_json(const std::vector<ZoneChange>& changes, const char* rol
   return out;
 }
 
-std::string edit_json(const Plan& plan, const FixEdit& e) {
+std::string edit_json(const Plan& plan, const Edit& e) {
   std::string out = "{\"kind\": \"" + std::string(to_string(e.kind)) + "\"";
-  if (e.kind == FixEdit::Kind::runs) out += ", \"model\": " + json_quote(plan.models[static_cast<size_t>(e.model)].id);
-  else out += ", \"node\": " + json_quote(plan.nodes[static_cast<size_t>(e.node)].id);
-  if (e.kind == FixEdit::Kind::delay) out += ", \"seconds\": " + std::to_string(e.seconds);
-  else out += ", \"cron\": " + json_quote(e.cron);
+  if (e.kind == EditKind::runs) out += ", \"model\": " + json_quote(plan.models[static_cast<size_t>(e.target)].id);
+  else out += ", \"node\": " + json_quote(plan.nodes[static_cast<size_t>(e.target)].id);
+  if (e.kind == EditKind::delay) out += ", \"seconds\": " + std::to_string(e.seconds);
+  else if (e.cron) out += ", \"cron\": " + json_quote(e.cron->text);
   return out + ", \"text\": " + json_quote(edit_text(plan, e)) + "}";
 }
 
