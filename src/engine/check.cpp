@@ -149,6 +149,7 @@ Evaluation evaluate_runs(const Plan& plan, std::vector<PendingRun> pending, cons
                                                  observed);
   if (store) ev.runs.reserve(pending.size());
   for (const PendingRun& p : pending) {
+    if (!store && ev.failed_) break;  // a lazy evaluation only needs to know whether some run fails
     RunResult run = evaluate_run(plan, *ev.engine_, p.model, p.at);
     ev.failed_ = ev.failed_ || run.status == RunStatus::fail;
     if (store) ev.runs.push_back(std::move(run));

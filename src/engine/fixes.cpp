@@ -385,10 +385,14 @@ struct FixFinder::State {
   const Lineage& lineage;
   const std::vector<bool>* monitored;
   mutable EditTrial trial;
+  // Scratch for the walks up from a pattern's features.
+  std::vector<uint32_t> reach, seen;
+  uint32_t walk = 0;
 
   explicit State(const PatternCollector& c)
       : collector(c), plan(c.plan()), ev(c.evaluation()), lineage(*c.evaluation().lineage_), monitored(c.monitored()),
-        trial(c.plan(), *c.evaluation().lineage_, c.evaluation().engine(), c.monitored()) {}
+        trial(c.plan(), *c.evaluation().lineage_, c.evaluation().engine(), c.monitored()),
+        reach(c.plan().nodes.size(), 0), seen(c.plan().nodes.size(), 0) {}
 
   bool is_monitored(int n) const {
     return monitored && static_cast<size_t>(n) < monitored->size() && (*monitored)[static_cast<size_t>(n)];
@@ -424,31 +428,82 @@ FixSearch FixFinder::find(const Pattern& p) const {
   }
   PatternRuns runs;
   int64_t worst_late = 0;
-  for (Instant at : p.runs) {
-    RunResult base = st.ev.run_at(p.model, at);
-    bool optional_bad = false;
-    for (const FeatureResult& f : base.features) {
-      if (f.optional && f.status != FeatureStatus::ok) optional_bad = true;
-    }
-    runs.at.push_back(at);
-    runs.also_degraded.push_back(p.status == RunStatus::fail && optional_bad);
-  }
   for (const PatternFeature& f : p.features) worst_late = std::max(worst_late, f.worst_late_seconds);
 
+  // Whether every run of the pattern clears with the edit under trial; the
+  // runs' own optional features are looked at once, on the first trial.
   auto passes_all = [&]() {
+    if (runs.at.empty()) {
+      for (Instant at : p.runs) {
+        bool optional_bad = false;
+        if (p.status == RunStatus::fail) {
+          for (const FeatureResult& f : st.ev.run_at(p.model, at).features) {
+            if (f.optional && f.status != FeatureStatus::ok) optional_bad = true;
+          }
+        }
+        runs.at.push_back(at);
+        runs.also_degraded.push_back(optional_bad);
+      }
+    }
     for (size_t i = 0; i < runs.at.size(); ++i) {
       if (!clears(trial.run(p.model, runs.at[i]), p.status, runs.also_degraded[i])) return false;
     }
     return true;
   };
 
-  // Which steps could clear every feature of the pattern: upstream of all.
-  std::vector<bool> common(plan.nodes.size(), true);
+  // Which steps could clear every feature of the pattern: those upstream of
+  // (or equal to) all of them, counted by one walk up from each feature.
+  std::vector<uint32_t>& reach = st.reach;
+  std::vector<uint32_t>& seen = st.seen;
+  std::vector<int> stack;
+  uint32_t features_walked = 0;
   for (const PatternFeature& f : p.features) {
-    std::vector<bool> up = st.lineage.upstream_mask({f.feature});
-    for (size_t n = 0; n < common.size(); ++n) common[n] = common[n] && up[n];
+    ++st.walk;
+    ++features_walked;
+    stack.assign(1, f.feature);
+    seen[static_cast<size_t>(f.feature)] = st.walk;
+    while (!stack.empty()) {
+      const int n = stack.back();
+      stack.pop_back();
+      // Only nodes every earlier walk reached can still be common.
+      if (reach[static_cast<size_t>(n)] + 1 == features_walked) reach[static_cast<size_t>(n)] = features_walked;
+      for (int in : st.lineage.inputs(n)) {
+        if (seen[static_cast<size_t>(in)] != st.walk) seen[static_cast<size_t>(in)] = st.walk, stack.push_back(in);
+      }
+    }
   }
-  out.causes_apart = std::none_of(common.begin(), common.end(), [](bool b) { return b; });
+  auto common_step = [&](int n) { return features_walked > 0 && reach[static_cast<size_t>(n)] == features_walked; };
+  bool any_common = false;
+  // The common steps are upstream of the first feature: look there only.
+  if (!p.features.empty()) {
+    ++st.walk;
+    stack.assign(1, p.features.front().feature);
+    while (!stack.empty() && !any_common) {
+      const int n = stack.back();
+      stack.pop_back();
+      if (common_step(n)) any_common = true;
+      for (int in : st.lineage.inputs(n)) {
+        if (seen[static_cast<size_t>(in)] != st.walk) seen[static_cast<size_t>(in)] = st.walk, stack.push_back(in);
+      }
+    }
+  }
+  out.causes_apart = !any_common;
+  // Reset the counts for the next pattern: every node a walk counted is
+  // upstream of the first feature.
+  auto reset_counts = [&] {
+    ++st.walk;
+    if (p.features.empty()) return;
+    stack.assign(1, p.features.front().feature);
+    seen[static_cast<size_t>(p.features.front().feature)] = st.walk;
+    while (!stack.empty()) {
+      const int n = stack.back();
+      stack.pop_back();
+      reach[static_cast<size_t>(n)] = 0;
+      for (int in : st.lineage.inputs(n)) {
+        if (seen[static_cast<size_t>(in)] != st.walk) seen[static_cast<size_t>(in)] = st.walk, stack.push_back(in);
+      }
+    }
+  };
 
   // Candidates: the worst run's blame, then other runs' blames if needed.
   std::vector<Candidate> candidates;
@@ -463,7 +518,7 @@ FixSearch FixFinder::find(const Pattern& p) const {
         out.tried_nodes.push_back(c.node);
       }
     };
-    if (!common[static_cast<size_t>(c.node)]) {
+    if (!common_step(c.node)) {
       note_tried();
       return;
     }
@@ -634,6 +689,7 @@ FixSearch FixFinder::find(const Pattern& p) const {
     return !a.breaks_others() && b.breaks_others();
   });
   out.fixes = std::move(found);
+  reset_counts();
   return out;
 }
 
