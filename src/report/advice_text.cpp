@@ -58,9 +58,6 @@ std::string clock_on(Instant t, const Zone* zone, LocalDays day) {
   return local_day(t, zone) == day ? full.substr(11) : full;
 }
 
-std::string signed_duration(int64_t seconds) {
-  return (seconds < 0 ? "-" : "") + format_duration(Duration{seconds < 0 ? -seconds : seconds});
-}
 
 std::string describe_changes(const std::vector<ZoneChange>& changes) {
   // Group the changes by (local date of the change, jump).
@@ -151,9 +148,10 @@ std::string describe_cause(const Plan& plan, const Blame& b, const Zone* zone) {
   switch (b.kind) {
     case CauseKind::none: return "";
     case CauseKind::never:
+      if (s.recorded) return what(plan, s.node) + " has not landed with data through " + at(b.needs_data_through);
       return what(plan, s.node) + " never lands with data through " + at(b.needs_data_through) +
-             (node.kind == NodeKind::source ? " (no qualifying delivery within 1,462 days, or none recorded)"
-                                            : " (its schedule has no qualifying start within 1,462 days)");
+             (node.kind == NodeKind::source ? " (no qualifying delivery within 1,462 days)"
+                                            : " (no qualifying start within 1,462 days)");
     case CauseKind::late_delivery:
       return what(plan, s.node) + " lands at " + at(*s.ready) + gap("delivery") + ", " +
              human_duration(s.own_late_seconds) + " after the latest landing that keeps the run on time (" +
@@ -249,7 +247,7 @@ std::string describe_effect(const Plan& plan, const Fix& fix) {
 
 std::string describe_no_fix(const Plan& plan, const Pattern& p, const FixSearch& search) {
   if (search.never) {
-    return "no timing edit helps: " + describe_cause(plan, p.blame, plan.models[static_cast<size_t>(p.model)].zone);
+    return "no change of timing helps: " + describe_cause(plan, p.blame, plan.models[static_cast<size_t>(p.model)].zone);
   }
   if (search.causes_apart) {
     return "no single edit clears every run of this pattern: its features are late through different steps, "

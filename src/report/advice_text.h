@@ -47,7 +47,4 @@ std::string describe_effect(const Plan& plan, const Fix& fix);
 /// Why no fix is shown: "no single edit clears every run of this pattern: ...".
 std::string describe_no_fix(const Plan& plan, const Pattern& p, const FixSearch& search);
 
-/// Signed ISO 8601 duration: "PT50M", "-PT50M".
-std::string signed_duration(int64_t seconds);
-
 }  // namespace readyby
