@@ -62,7 +62,7 @@ models:
   Evaluation ev = evaluate(plan, *parse_date("2026-05-01"), 1);
   REQUIRE(ev.runs.size() == 1);
   REQUIRE(ev.runs[0].status == RunStatus::ok);
-  std::vector<Margin> m = margins(plan, ev);
+  std::vector<Margin> m = margins(plan, ev, MarginOptions{MarginOptions::Check::full});
   struct Case {
     const char* activity;
     int total_float_hours;
@@ -75,7 +75,7 @@ models:
     CHECK(*margin.seconds == c.total_float_hours * 3600);
     CHECK(margin.binding_model == 0);
     CHECK(margin.binding_at == ev.runs[0].at);
-    CHECK(margin.method == Margin::Method::confirmed);
+    CHECK(margin.method == Margin::Method::cone_checked);
   }
 }
 
@@ -144,6 +144,7 @@ TEST_CASE("margins hold under re-evaluation on random plans: margin keeps every 
       const std::string& id = plan.nodes[static_cast<size_t>(m.node)].id;
       INFO("node " << id);
       if (m.method == Margin::Method::bisection) ++by_bisection;
+      if (m.seconds) CHECK(m.method == Margin::Method::binding_run_checked);
       if (!m.seconds) {
         // Unbounded: even a week's delay changes no ok run.
         std::vector<Edit> week = {Edit::delay(m.node, 7 * 86400)};

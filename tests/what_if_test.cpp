@@ -112,11 +112,13 @@ TEST_CASE("margins and impact on the demo plan") {
   CHECK(json.out.starts_with("{\"margins\": [\n  {\"node\": \"adt_events\", \"margin_seconds\": 600, \"binding\": "
                              "{\"model\": \"discharge_delay\", \"at\": \"2026-02-22T06:30:00-06:00\"}},"));
   CHECK(json.out.ends_with("{\"node\": \"nurse_staffing\", \"margin_seconds\": null, \"binding\": null}]}\n"));
+  // --verify re-evaluates every cone and finds the same margins.
+  CHECK(run_stdout("margins " + kDemo + kWindow + " --format json --verify").out == json.out);
 
   Outcome impact = run("impact " + kDemo + kWindow);
   INFO(impact.out);
   CHECK(impact.status == 1);
-  CHECK(impact.out.find("4 single points of failure (its failure fails runs of two or more models): lab_results, "
+  CHECK(impact.out.find("4 single points of failure (its failure fails runs of two or more models):\n  lab_results, "
                         "adt_events, labs_clean, admission_source") != std::string::npos);
   Outcome impact_json = run_stdout("impact " + kDemo + kWindow + " --format json");
   CHECK(impact_json.out.starts_with(

@@ -83,9 +83,11 @@ const char kWhatIfUsage[] =
     "  Exit 1 when an edit makes some run fail that did not fail before, else 0;\n"
     "  2 on bad input.\n";
 const char kMarginsUsage[] =
-    "usage: readyby margins PLAN [--from YYYY-MM-DD] [--days N] [--format text|json]\n"
+    "usage: readyby margins PLAN [--from YYYY-MM-DD] [--days N] [--format text|json] [--verify]\n"
     "  For every node: how much later (whole minutes) every landing could be without any\n"
     "  run that is ok today degrading or failing, and the run that binds it. Smallest first.\n"
+    "  Each margin is re-checked on its binding run; --verify re-evaluates every node's\n"
+    "  downstream cone at its margin and one minute more (slower).\n"
     "  Defaults: --from today in the plan's zone, --days 28, --format text.\n"
     "  Exit 0, or 1 when some run of the window fails (as check); 2 on bad input.\n";
 const char kImpactUsage[] =

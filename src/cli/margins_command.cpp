@@ -19,15 +19,19 @@ struct WindowOptions {
   std::optional<LocalDays> from;
   int days = 28;
   std::string format = "text";
+  bool verify = false;  // margins: re-evaluate every cone at M and M + 1 minute
 };
 
 std::string parse_window_args(const char* command, const std::vector<std::string>& args, WindowOptions* o) {
+  const bool margins = std::string_view(command) == "margins";
   for (size_t i = 0; i < args.size(); ++i) {
     const std::string& a = args[i];
     std::string error;
     if (take_window(args, &i, &o->from, &o->days, &error) ||
         take_format(args, &i, {"text", "json"}, &o->format, &error)) {
       if (!error.empty()) return error;
+    } else if (margins && a == "--verify") {
+      o->verify = true;
     } else if (a.starts_with("-")) {
       return "unknown option '" + a + "'";
     } else if (o->plan_path.empty()) {
@@ -60,7 +64,9 @@ int cmd_margins(const std::vector<std::string>& args) {
   std::optional<Plan> plan;
   if (std::optional<int> status = prepare("margins", args, &o, &plan)) return *status;
   Evaluation ev = evaluate(*plan, *o.from, o.days);
-  std::vector<Margin> result = margins(*plan, ev);
+  MarginOptions options;
+  if (o.verify) options.check = MarginOptions::Check::full;
+  std::vector<Margin> result = margins(*plan, ev, options);
   if (o.format == "json") write_margins_json(std::cout, *plan, result);
   else write_margins_text(std::cout, *plan, ev, result);
   std::cout.flush();

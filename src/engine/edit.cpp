@@ -264,7 +264,8 @@ std::vector<int> edited_nodes(const std::vector<Edit>& edits) {
   return out;
 }
 
-Evaluation reevaluate(const Evaluation& base, const Plan& edited, const std::vector<Edit>& edits) {
+Evaluation reevaluate(const Evaluation& base, const Plan& edited, const std::vector<Edit>& edits,
+                      const DownstreamCones* cones) {
   const FreshnessEngine& base_engine = base.engine();
   // Models whose runs must be recomputed: their run times changed, or a
   // feature's max_age, or (below) a feature lies in the rebuilt cone.
@@ -302,9 +303,10 @@ Evaluation reevaluate(const Evaluation& base, const Plan& edited, const std::vec
   ev.plan_ = &edited;
   ev.lineage_ = std::make_unique<Lineage>(*base.lineage_);
   ev.findings = base.findings;
-  DownstreamCones cones(*ev.lineage_);
+  std::optional<DownstreamCones> own_cones;
+  if (!cones) cones = &own_cones.emplace(*ev.lineage_);
   std::vector<int> seeds = edited_nodes(edits);
-  ev.engine_ = std::make_unique<FreshnessEngine>(base_engine, edited, seeds, cones.of(seeds));
+  ev.engine_ = std::make_unique<FreshnessEngine>(base_engine, edited, seeds, cones->of(seeds));
   for (size_t m = 0; m < edited.models.size(); ++m) {
     for (int f : edited.models[m].features) {
       if (ev.engine_->owns_profile(f)) affected[m] = true;

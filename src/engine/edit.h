@@ -21,8 +21,11 @@
 // Re-evaluating an edited plan gives exactly what `evaluate` gives on the
 // edited copy (every run's status, features, ready_at, slack and chain), and
 // what `check` gives on a plan file with the edit written in. It rebuilds only
-// the freshness profiles of the edited nodes and of their downstream cone;
-// every other profile, run and finding is reused from the evaluation before.
+// the freshness profiles of the edited nodes and of those downstream nodes
+// whose inputs' profiles changed (a change absorbed on the way — an input that
+// is never the latest, a fixed start time that still catches the data — stops
+// there); every other profile, run and finding is reused from the evaluation
+// before.
 //
 // Pure computation: no I/O. Errors are returned as values, never thrown.
 
@@ -32,6 +35,7 @@
 #include <vector>
 
 #include "engine/check.h"
+#include "plan/lineage.h"
 #include "plan/plan.h"
 #include "time/cron.h"
 
@@ -105,12 +109,19 @@ std::vector<int> edited_nodes(const std::vector<Edit>& edits);
 /// `edited` (= apply_edits(base's plan, edits)) evaluated over the window of
 /// `base`, which must come from evaluate() (runs stored) on the unedited plan.
 /// Equal to evaluate(edited, base.from, base.days, observed) in every run,
-/// feature, chain and finding. Only the downstream cone of edited_nodes is
-/// rebuilt and only runs of models with a feature in that cone (or edited by
-/// runs/max_age) are recomputed; the rest is reused. When runs or max_age
-/// edits move the queried range of w outside `base`'s, everything is rebuilt.
-/// `base` and `edited` must outlive the result.
-Evaluation reevaluate(const Evaluation& base, const Plan& edited, const std::vector<Edit>& edits);
+/// feature, chain and finding, where `observed` are the recorded deliveries
+/// `base` was evaluated with (a monitored node keeps them, shifted by a
+/// delay; see FreshnessEngine). Only profiles in the downstream cone of
+/// edited_nodes are rebuilt, and only runs of models with a feature whose
+/// profile changed (or edited by runs/max_age) are recomputed; the rest is
+/// reused. When runs or max_age edits move the queried range of w outside
+/// `base`'s, everything is rebuilt. `base` and `edited` must outlive the result.
+/// `cones` (of the plan's lineage), when given, spares preparing them again:
+/// callers that re-evaluate many edits of one plan should pass one.
+/// For many probes of a few runs, build a FreshnessEngine from
+/// base.engine() and call evaluate_run directly instead (no runs copied).
+Evaluation reevaluate(const Evaluation& base, const Plan& edited, const std::vector<Edit>& edits,
+                      const DownstreamCones* cones = nullptr);
 
 /// A run whose status an edit changed.
 struct StatusChange {

@@ -14,12 +14,18 @@
 // (as in the critical path method's backward pass) gives, for every node and
 // every w that some ok run asks a downstream feature about, the latest
 // instant L_n(w) by which n must land; a delay D keeps every ok run ok
-// exactly when E_n(w) + D <= L_n(w) for all those w. The candidate margin is
-// then min over w of floor((L_n(w) - E_n(w)) / 60 s). With `confirm`, each
-// candidate M is checked by re-evaluating the node's downstream cone with
-// `delay n=M` (no ok run changes) and `delay n=M+1m` (the binding run
-// degrades or fails); should a check disagree, the margin is found by
-// bisection on such re-evaluations instead, and `confirmed` says so.
+// exactly when E_n(w) + D <= L_n(w) for all those w. The margin is then
+// min over w of floor((L_n(w) - E_n(w)) / 60 s): exact, in one pass for all
+// nodes, instead of a bisection of re-evaluations per node.
+//
+// Each margin M is then checked by re-evaluation (MarginOptions::check):
+// `binding_run` re-evaluates the binding run alone with `delay n=M+1m` (the
+// §4 recursion at its instants over the node's downstream cone) and expects
+// it to degrade or fail; `full` re-evaluates the node's whole downstream cone
+// with `delay n=M` (no ok run may change) and `delay n=M+1m` (some ok run
+// must). Should a check disagree, the margin is found by bisection on cone
+// re-evaluations instead and `method` says so. The tests hold the backward
+// pass to the full check on random plans.
 //
 // Pure computation over a loaded plan and its evaluation; no I/O.
 
@@ -42,17 +48,20 @@ struct Margin {
   /// unbounded.
   int binding_model = -1;
   Instant binding_at;
+  size_t binding_run = 0;  // its index in the evaluation's runs (when bounded)
   /// Seconds by which the node lands before it must for the binding run
   /// (L_n(w) - E_n(w), >= seconds); 0 when unbounded.
   int64_t room_seconds = 0;
-  /// How the margin was established: by the backward pass alone (confirm
-  /// off), confirmed by two re-evaluations, or found by bisection.
-  enum class Method { backward_pass, confirmed, bisection } method = Method::backward_pass;
+  /// How the margin was established: the backward pass alone (no check), the
+  /// backward pass checked on its binding run or on the whole cone, or
+  /// bisection on cone re-evaluations (a check disagreed).
+  enum class Method { backward_pass, binding_run_checked, cone_checked, bisection } method = Method::backward_pass;
   int reevaluations = 0;  // cone re-evaluations spent on this node
 };
 
 struct MarginOptions {
-  bool confirm = true;  // re-evaluate each bounded margin at M and M + 1 minute
+  enum class Check { none, binding_run, full };
+  Check check = Check::binding_run;
 };
 
 /// The margin of every node of `plan` over the window of `base`, which must

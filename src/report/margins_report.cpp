@@ -32,6 +32,23 @@ std::string padded(const std::string& s, size_t width) { return s + std::string(
 
 std::string runs_word(int n) { return std::to_string(n) + (n == 1 ? " run" : " runs"); }
 
+// Names listed in a paragraph (wrapped at 78 columns); beyond `limit`, a
+// count of the rest.
+constexpr size_t kListLimit = 40;
+void write_names(std::ostream& out, const Plan& plan, const std::vector<int>& nodes) {
+  size_t col = 80;
+  const size_t shown = std::min(nodes.size(), kListLimit);
+  for (size_t i = 0; i < shown; ++i) {
+    const std::string& id = plan.nodes[static_cast<size_t>(nodes[i])].id;
+    if (col + id.size() + 2 > 78) out << "\n  ", col = 2;
+    else out << " ", ++col;
+    out << id << (i + 1 < shown ? "," : "");
+    col += id.size() + 1;
+  }
+  if (shown < nodes.size()) out << "\n  and " << nodes.size() - shown << " more (--format json lists every node)";
+  out << "\n";
+}
+
 }  // namespace
 
 std::vector<Margin> margins_in_report_order(std::vector<Margin> margins) {
@@ -71,15 +88,7 @@ void write_margins_text(std::ostream& out, const Plan& plan, const Evaluation& e
   if (!unbounded.empty()) {
     out << "\nno run that is ok today depends on " << unbounded.size() << (unbounded.size() == 1 ? " node" : " nodes")
         << " (any delay changes nothing):";
-    size_t col = 80;
-    for (size_t i = 0; i < unbounded.size(); ++i) {
-      const std::string& id = plan.nodes[static_cast<size_t>(unbounded[i])].id;
-      if (col + id.size() + 2 > 78) out << "\n  ", col = 2;
-      else out << " ", ++col;
-      out << id << (i + 1 < unbounded.size() ? "," : "");
-      col += id.size() + 1;
-    }
-    out << "\n";
+    write_names(out, plan, unbounded);
   }
 }
 
@@ -133,8 +142,7 @@ void write_impact_text(std::ostream& out, const Plan& plan, const Evaluation& ev
   } else {
     out << spofs.size() << (spofs.size() == 1 ? " single point of failure" : " single points of failure")
         << " (its failure fails runs of two or more models):";
-    for (size_t k = 0; k < spofs.size(); ++k) out << (k ? ", " : " ") << plan.nodes[static_cast<size_t>(spofs[k])].id;
-    out << "\n";
+    write_names(out, plan, spofs);
   }
   size_t quiet = impact.size() - changing.size();
   if (quiet) out << quiet << (quiet == 1 ? " node changes" : " nodes change") << " no run when it fails\n";

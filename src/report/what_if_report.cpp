@@ -57,7 +57,18 @@ void write_what_if_text(std::ostream& out, const WhatIfResult& r) {
       out << "  model " << model.id << " (" << model.zone->name() << ")\n";
       for (const auto& [key, runs] : groups) {
         out << "    " << key << ": " << runs.size() << (runs.size() == 1 ? " run" : " runs") << "\n";
-        for (Instant at : runs) out << "      " << format_local(model.zone->to_local(at)) << "\n";
+        // The local times, wrapped, at most kShown of them.
+        constexpr size_t kShown = 12;
+        size_t col = 80;
+        for (size_t k = 0; k < runs.size() && k < kShown; ++k) {
+          std::string t = format_local(model.zone->to_local(runs[k])) + (k + 1 < runs.size() ? "," : "");
+          if (col + t.size() + 1 > 78) out << (k ? "\n" : "") << "      ", col = 6;
+          else out << " ", ++col;
+          out << t;
+          col += t.size();
+        }
+        if (runs.size() > kShown) out << " and " << runs.size() - kShown << " more (--format json lists every run)";
+        out << "\n";
       }
     }
   }
