@@ -149,6 +149,7 @@ Evaluation evaluate_runs(const Plan& plan, std::vector<PendingRun> pending, cons
                                                  observed);
   if (store) ev.runs.reserve(pending.size());
   for (const PendingRun& p : pending) {
+    if (!store && ev.failed_) break;  // a lazy evaluation only needs to know whether some run fails
     RunResult run = evaluate_run(plan, *ev.engine_, p.model, p.at);
     ev.failed_ = ev.failed_ || run.status == RunStatus::fail;
     if (store) ev.runs.push_back(std::move(run));
@@ -172,7 +173,7 @@ RunResult Evaluation::pending_run(size_t i) const {
   return evaluate_run(*plan_, *engine_, pending_[i].model, pending_[i].at);
 }
 
-RunResult Evaluation::run_at(int model, Instant at) const { return evaluate_run(*plan_, *engine_, {model, at}); }
+RunResult Evaluation::run_at(int model, Instant at) const { return evaluate_run(*plan_, *engine_, model, at); }
 
 Evaluation evaluate(const Plan& plan, LocalDays from, int days, const ObservedDeliveries* observed) {
   Evaluation ev = evaluate_runs(plan, runs_in_window(plan, from, days), observed, true);

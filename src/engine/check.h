@@ -94,7 +94,8 @@ Evaluation evaluate(const Plan& plan, LocalDays from, int days, const ObservedDe
 
 /// Like evaluate, but keeps only the run instants: `runs` stays empty and
 /// each run is computed when asked for (pending_run), so memory does not
-/// grow with the number of runs. ok() is known at once.
+/// grow with the number of runs. ok() is known at once (the runs are
+/// evaluated up to the first that fails).
 Evaluation evaluate_lazily(const Plan& plan, LocalDays from, int days);
 
 /// The runs of one model at one instant, evaluated alone (for --run). The

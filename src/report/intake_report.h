@@ -6,7 +6,8 @@
 // JSON keys (stable; more may be added): proposal, title, plan, model,
 // timezone, from, days, timing {verdict (on-time | at-risk | infeasible),
 // runs, ok, degraded, failed, tightest_slack_seconds (null when no run),
-// tightest_at, degraded_features[], patterns[] {description, status (fail |
+// tightest_at, tightest_optional_slack_seconds (null when no optional feature
+// became ready), degraded_features[], patterns[] {description, status (fail |
 // degraded), runs, failing_features[], chain[], fix, start_later, cheapest,
 // cause, no_fix}}, reuse (the
 // `reuse --format json` object), feasibility[] {id, name, coverage, in_house,
