@@ -32,6 +32,35 @@ fi
 echo "== engine: profiles vs per-run recursion (same answers required) =="
 "$BUILD_DIR/freshness_bench" "$WORK/plan.yaml" 2026-03-01 30 4000
 
+# ---- counterfactuals: what-if, margins, impact on the 20,000-node plan ----
+# The plan is generated with every max_age 200 hours longer, so that about
+# 30% of its runs are ok and margins and impact have something to lose (with
+# the default plan every run fails). Guarded like the sections below.
+advice_bench() {
+  local plan="$WORK/advice-plan.yaml"
+  python3 "$ROOT/bench/gen_plan.py" --seed 1 --max-age-extra-hours 200 > "$plan" || return 1
+  echo "validate (loading alone): $(measure "$READYBY" validate "$plan")"
+  echo "what-if --delay src7=PT30M --days 30 (target: < 0.5 s beyond loading): $(measure "$READYBY" what-if "$plan" --from 2026-03-01 --days 30 --delay src7=PT30M)"
+  echo "what-if --delay job410=PT1H --days 30 (1,042 profiles rebuilt): $(measure "$READYBY" what-if "$plan" --from 2026-03-01 --days 30 --delay job410=PT1H)"
+  echo "margins --days 30, every node (target < 60 s): $(measure "$READYBY" margins "$plan" --from 2026-03-01 --days 30)"
+  echo "impact --days 30, every node (target < 60 s): $(measure "$READYBY" impact "$plan" --from 2026-03-01 --days 30)"
+  echo "phase by phase (CPU and wall seconds):"
+  "$BUILD_DIR/advice_bench" "$plan" 2026-03-01 30 src7,job410 | sed 's/^/  /'
+  if [ "${READYBY_BENCH_LONG:-0}" = 1 ]; then
+    # Growth with nodes (a quarter, half, all of the plan) and days.
+    for scale in 4 2 1; do
+      python3 "$ROOT/bench/gen_plan.py" --seed 1 --max-age-extra-hours 200 --sources $((2000 / scale)) \
+        --jobs $((8000 / scale)) --features $((10000 / scale)) --daily-models $((150 / scale)) \
+        --hourly-models $((50 / scale)) > "$WORK/scaled.yaml" || return 1
+      for days in 7 30 90; do
+        echo "$((20000 / scale)) nodes, $days days: margins $(measure "$READYBY" margins "$WORK/scaled.yaml" --from 2026-03-01 --days "$days"); impact $(measure "$READYBY" impact "$WORK/scaled.yaml" --from 2026-03-01 --days "$days")"
+      done
+    done
+  fi
+}
+echo "== counterfactuals: what-if, margins, impact (20,000 nodes) =="
+advice_bench || echo "counterfactual benchmark failed"
+
 echo "== time layer =="
 "$BUILD_DIR/next_occurrence_bench" 3000000
 

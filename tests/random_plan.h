@@ -1,8 +1,8 @@
 #pragma once
-// A random valid data plan in YAML, for property tests: several zones,
-// calendars, cron sources (often in the hours a spring-forward gap removes),
-// streams, cron-triggered jobs and features, optional features, per-node
-// zones. Shared by the tests that judge the engine against tests/reference.h.
+// A random valid plan in YAML for property tests (shared by the freshness and
+// edit tests): several zones, calendars, cron sources (often in the hours a
+// spring-forward gap removes), streams, cron-triggered jobs and features,
+// optional features, per-node zones.
 
 #include <random>
 #include <sstream>
