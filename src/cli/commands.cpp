@@ -141,10 +141,10 @@ const std::vector<Command>& command_table() {
       {"catalog", "validate, search and show the catalogue of published scores", kCatalogUsage, cmd_catalog},
       {"reuse", "has an established score already covered this proposal?", kReuseUsage, cmd_reuse},
       {"intake", "screen a proposed model: data timing, established scores, recommendation", kIntakeUsage, cmd_intake},
-      {"report", "write an HTML page of calendars, chain timelines, lineage and history", kReportUsage, cmd_report},
       {"what-if", "check the plan with edits (delay, fail, schedule, runs, max-age) and list what changes", kWhatIfUsage, cmd_what_if},
       {"margins", "how much later each node could land before an ok run degrades or fails", kMarginsUsage, cmd_margins},
       {"impact", "which runs fail or degrade when a node never lands; single points of failure", kImpactUsage, cmd_impact},
+      {"report", "write an HTML page of calendars, chain timelines, lineage and history", kReportUsage, cmd_report},
       {"help", "list the commands, or show one command's usage", kHelpUsage, cmd_help},
   };
   return kTable;
