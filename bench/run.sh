@@ -143,3 +143,26 @@ report_bench() {
 }
 echo "== report page =="
 report_bench || echo "report benchmark failed"
+# ---- forecast: the 20,000-node plan with 500 monitored sources and 365 days of history ----
+# Guarded: a failure here is reported and does not stop the other sections.
+forecast_section() {
+  local f="$WORK/forecast"
+  mkdir -p "$f" || return 1
+  python3 "$ROOT/bench/gen_history.py" --for-plan "$WORK/plan.yaml" "$f/landings.csv" --monitor 500 --days 365 \
+      --end 2026-02-28 || return 1
+  "$READYBY" record "$f/landings.csv" --plan "$WORK/plan.yaml" --db "$f/history.db" >/dev/null || return 1
+  echo "  history: $(( $(wc -l < "$f/landings.csv") - 1 )) rows for 500 sources over 365 days"
+  rm -f "$f/landings.csv"
+  echo "forecast --days 30 --draws 2000 --format json (target < 30 s, < 1 GiB on 2 cores): $(measure "$READYBY" forecast "$WORK/plan.yaml" --db "$f/history.db" --from 2026-03-01 --days 30 --draws 2000 --format json)"
+  echo "  where the time goes (one thread):"
+  "$BUILD_DIR/forecast_bench" "$WORK/plan.yaml" "$f/history.db" 2026-03-01 30 10 | sed 's/^/    /'
+  if [ "${READYBY_BENCH_LONG:-0}" = 1 ]; then
+    for days in 7 14; do
+      echo "  --days $days, one thread:"
+      "$BUILD_DIR/forecast_bench" "$WORK/plan.yaml" "$f/history.db" 2026-03-01 "$days" 10 | sed 's/^/    /'
+    done
+    echo "forecast --draws 8000: $(measure "$READYBY" forecast "$WORK/plan.yaml" --db "$f/history.db" --from 2026-03-01 --days 30 --draws 8000 --format json)"
+  fi
+}
+echo "== forecast =="
+forecast_section || echo "forecast benchmark failed"

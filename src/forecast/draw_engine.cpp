@@ -682,18 +682,17 @@ void DrawEngine::classify_drawn_runs(const std::vector<uint8_t>& feature_drawn) 
 OutcomeTables OutcomeTables::fitted(const LandingModels& models) {
   OutcomeTables out;
   for (const LandingModel& m : models.models) {
+    // Group 0 is the pooled distribution; a per-weekday model adds one group
+    // per scheduled weekday (other weekdays fall back to the pooled one).
     NodeTables t;
-    t.groups.push_back(m.outcomes_for(0));
-    if (m.by_weekday) {
-      t.groups.clear();
-      std::vector<int64_t> pooled;
-      for (const HistoricalOccurrence& h : m.history) pooled.push_back(h.outcome);
-      t.groups.push_back(pooled.empty() ? std::vector<int64_t>{kMissingOccurrence} : pooled);
-      for (int d = 0; d < 7; ++d) {
-        if (m.weekdays[static_cast<size_t>(d)].occurrences == 0) continue;
-        t.group_of_weekday[static_cast<size_t>(d)] = static_cast<uint8_t>(t.groups.size());
-        t.groups.push_back(m.outcomes_for(d));
-      }
+    std::vector<int64_t> pooled;
+    for (const HistoricalOccurrence& h : m.history) pooled.push_back(h.outcome);
+    if (pooled.empty()) pooled.push_back(kMissingOccurrence);
+    t.groups.push_back(std::move(pooled));
+    for (int d = 0; d < 7 && m.by_weekday; ++d) {
+      if (m.weekdays[static_cast<size_t>(d)].occurrences == 0) continue;
+      t.group_of_weekday[static_cast<size_t>(d)] = static_cast<uint8_t>(t.groups.size());
+      t.groups.push_back(m.outcomes_for(d));
     }
     out.nodes.push_back(std::move(t));
   }

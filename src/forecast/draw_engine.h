@@ -27,10 +27,21 @@
 // - Queries (feature, w = run − allowed age) are deduplicated and sorted per
 //   feature; a draw answers each feature's queries in one walk along its
 //   profile. Runs whose inputs are all fixed are evaluated once.
-// The cost of a draw is therefore proportional to the profile pieces of the
-// drawn part of the cone plus the number of queries on drawn features,
-// independent of the time-zone work; it does not depend on how many draws
-// ran before (each has its own generator: see random.h).
+// - Bounds settle runs before any draw. Every landing of every draw lies
+//   between a node's earliest recorded offset and its latest (or missing, if
+//   it ever was), and E only grows with any landing; so the run evaluated with
+//   all monitored nodes at their earliest is a lower bound for every draw, at
+//   their latest an upper bound. A run late even at the earliest is *doomed*
+//   (fails in every draw), one on time even at the latest is *settled*; the
+//   others are *live*. A partial draw samples and rebuilds only what live runs
+//   need (live nodes are sampled first, so a live run comes out the same in a
+//   full and a partial draw with the same seed); full draws also evaluate the
+//   doomed runs, for the attribution of their lateness.
+// The cost of a full draw is therefore proportional to the profile pieces of
+// the drawn part of the cone plus the number of queries on drawn features,
+// independent of the time-zone work; a partial draw's to the live part only.
+// Neither depends on how many draws ran before (each has its own generator:
+// see random.h).
 //
 // Exactness. For every query the answer (ready or not by its run, and the
 // origin of its chain) equals what engine/check.h's evaluate() gives with the
