@@ -9,6 +9,7 @@
 #include "reference.h"
 
 using namespace readyby;
+using readyby::testing::random_plan;
 
 
 TEST_CASE("the engine agrees with the literal recursion on random plans across daylight-saving changes") {
