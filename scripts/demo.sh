@@ -21,7 +21,9 @@ run record pipelines/landing-logs/integration-server.jsonl --plan "$PLAN" --db "
     --map node=task,landed_at=load_end_ts,data_through=watermark,status=state
 run record pipelines/landing-logs/feeds-2026-03.csv --plan "$PLAN" --db "$DB"
 run nightly "$PLAN" --db "$DB" --date 2026-03-03
-# The screening report for two fictional proposals.
+# The screening report for two fictional proposals, with the demo hospital's
+# own registry of in-house models (pipelines/registry/) layered over the
+# shipped catalogue of published scores.
 export READYBY_CACHE_DIR="${READYBY_CACHE_DIR:-$PWD/build/cache}"
-run intake pipelines/readmit-30d.proposal.yaml --from 2026-02-22 --days 28
-run intake pipelines/day-case-return-to-theatre.proposal.yaml --from 2026-02-22 --days 28 --format markdown
+run intake pipelines/readmit-30d.proposal.yaml --from 2026-02-22 --days 28 --registry pipelines/registry
+run intake pipelines/day-case-return-to-theatre.proposal.yaml --from 2026-02-22 --days 28 --registry pipelines/registry --format markdown

@@ -26,6 +26,15 @@ struct TempCache {
   }
 };
 
+SearchQuery query(const std::string& text, const std::string& setting, std::vector<std::string> outcomes, size_t limit) {
+  SearchQuery q;
+  q.text = text;
+  q.setting = setting;
+  q.outcomes = std::move(outcomes);
+  q.limit = limit;
+  return q;
+}
+
 std::vector<std::string> ids_of(const std::vector<SearchHit>& hits) {
   std::vector<std::string> out;
   for (const SearchHit& h : hits) out.push_back(h.id);
@@ -118,7 +127,7 @@ TEST_CASE("search ranks by BM25 and filters by setting and outcome") {
   const CatalogIndex& index = *opened.index;
   std::string error;
 
-  std::vector<std::string> pneumonia = ids_of(index.search({"pneumonia severity", "", {}, 5}, &error));
+  std::vector<std::string> pneumonia = ids_of(index.search(query("pneumonia severity", "", {}, 5), &error));
   CHECK(error.empty());
   REQUIRE(pneumonia.size() == 5);
   std::vector<std::string> top3(pneumonia.begin(), pneumonia.begin() + 3);
@@ -126,17 +135,17 @@ TEST_CASE("search ranks by BM25 and filters by setting and outcome") {
   CHECK(top3 == std::vector<std::string>{"crb-65", "curb-65", "psi-port"});
 
   // Stemming: "readmissions" finds the readmission indices.
-  std::vector<std::string> readmit = ids_of(index.search({"readmissions", "", {"readmission-30d"}, 20}, &error));
+  std::vector<std::string> readmit = ids_of(index.search(query("readmissions", "", {"readmission-30d"}, 20), &error));
   CHECK(std::find(readmit.begin(), readmit.end(), "lace-index") != readmit.end());
-  for (const SearchHit& h : index.search({"readmissions", "", {"readmission-30d"}, 20}, &error)) {
+  for (const SearchHit& h : index.search(query("readmissions", "", {"readmission-30d"}, 20), &error)) {
     CHECK(h.outcome == "readmission-30d");
   }
-  for (const SearchHit& h : index.search({"mortality", "intensive-care", {}, 50}, &error)) {
+  for (const SearchHit& h : index.search(query("mortality", "intensive-care", {}, 50), &error)) {
     INFO(h.id);
     CHECK(std::find(h.settings.begin(), h.settings.end(), "intensive-care") != h.settings.end());
   }
-  CHECK(index.search({"  ", "", {}, 5}, &error).empty());
-  CHECK(index.search({"\"quoted\" AND (weird) NEAR", "", {}, 5}, &error).size() <= 5);
+  CHECK(index.search(query("  ", "", {}, 5), &error).empty());
+  CHECK(index.search(query("\"quoted\" AND (weird) NEAR", "", {}, 5), &error).size() <= 5);
   CHECK(error.empty());
 }
 

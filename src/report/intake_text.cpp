@@ -49,7 +49,8 @@ void reuse_section(const IntakeReport& r, std::string* out) {
       continue;
     }
     *out += "  #" + std::to_string(c.rank) + " " + pad(c.entry->name, 34) + pad("[" + c.entry->id + "]", 26) +
-            pad(to_string(c.coverage), 7) + (c.in_house ? "in-house" : c.entry->kind) + "\n";
+            pad(to_string(c.coverage), 8) + pad(c.in_house ? "in-house" : c.entry->kind, 9) +
+            (c.in_house ? "not published" : c.evidence.brief()) + "\n";
   }
   if (related) *out += "  (" + std::to_string(related) + " related entries only; see 'readyby reuse')\n";
 }
