@@ -56,3 +56,42 @@ TEST_CASE("check --run explains one run step by step") {
         std::string::npos);
   CHECK(run("check " + kDemo + " --run nobody@2026-03-08T06:30").status == 2);
 }
+
+// Regression: windows far in the future ran on frozen zone tables or printed
+// years that RFC 3339 cannot hold; they are refused with a clear message.
+TEST_CASE("windows outside the supported dates are refused") {
+  Outcome far = run("check " + kDemo + " --from 2300-01-01 --days 1");
+  CHECK(far.status == 2);
+  CHECK(far.out.find("--from 2300-01-01 is outside the supported dates 1900-01-01 to 2180-12-31") != std::string::npos);
+  Outcome run_far = run("check " + kDemo + " --run discharge_delay@9999-01-01T06:30");
+  CHECK(run_far.status == 2);
+  CHECK(run_far.out.find("--run 9999-01-01 is outside the supported dates") != std::string::npos);
+  // 2040 is inside, with daylight saving in July (see zone_test).
+  Outcome summer = run("check " + kDemo + " --from 2040-07-02 --days 1 --format json");
+  CHECK(summer.out.find("\"at\": \"2040-07-02T06:30:00-05:00\"") != std::string::npos);
+}
+
+// Regression: a filesystem error (here a symbolic-link loop where a registry
+// subfolder should be) threw out of main and aborted the process (status
+// 134). It is now handled where it happens; anything that still escaped a
+// command would be one line on stderr and status 2, never an abort.
+TEST_CASE("a filesystem error in a registry folder does not abort") {
+  std::string dir = std::string(std::getenv("TMPDIR") ? std::getenv("TMPDIR") : "/tmp") + "/readyby_cli_loop_registry";
+  std::system(("rm -rf " + dir + " && mkdir -p " + dir + " && ln -s vocabulary " + dir + "/vocabulary").c_str());
+  Outcome o = run("catalog validate --registry " + dir);
+  CHECK(o.status != 134);
+  CHECK((o.status == 0 || o.status == 2));
+  std::system(("rm -rf " + dir).c_str());
+}
+
+// Regression: `validate > /dev/full` exited 0, so a scheduler published an
+// empty report. A failed write is now "cannot write output", status 2.
+TEST_CASE("output that cannot be written is an error") {
+  Outcome full = readyby::testing::run_shell(std::string(READYBY_BINARY) + " validate " + kDemo + " 2>&1 >/dev/full");
+  CHECK(full.status == 2);
+  CHECK(full.out.find("readyby: cannot write output: No space left on device") != std::string::npos);
+  Outcome json = readyby::testing::run_shell(std::string(READYBY_BINARY) + " check " + kDemo +
+                                             " --from 2026-02-22 --days 28 --format json 2>&1 >/dev/full");
+  CHECK(json.status == 2);
+  CHECK(json.out.find("cannot write output") != std::string::npos);
+}

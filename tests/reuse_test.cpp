@@ -79,7 +79,7 @@ size_t rank_of(const ReuseReport& r, const std::string& id) {
 
 }  // namespace
 
-TEST_CASE("a 30-day readmission proposal finds the readmission indices as covers") {
+TEST_CASE("a 30-day readmission proposal: LACE and the in-house model cover, HOSPITAL partly") {
   // The demo hospital's registry layered over the shipped catalogue.
   const std::vector<Entry>& demo = testing::with_demo_registry().catalog.entries;
   ReuseReport r = reuse(kReadmission, demo);
@@ -90,17 +90,19 @@ TEST_CASE("a 30-day readmission proposal finds the readmission indices as covers
     INFO(id);
     const Candidate* c = find(r, id);
     REQUIRE(c);
-    CHECK(c->coverage == Coverage::covers);
     CHECK(c->criteria.size() == 5);
   }
   CHECK(result_of(*find(r, "lace-index"), "outcome") == "same");
-  CHECK(result_of(*find(r, "hospital-score"), "outcome") == "narrower");  // potentially avoidable readmission
+  CHECK(find(r, "lace-index")->coverage == Coverage::covers);
+  // HOSPITAL predicts potentially avoidable readmission, a narrower outcome: partly.
+  CHECK(result_of(*find(r, "hospital-score"), "outcome") == "narrower");
+  CHECK(find(r, "hospital-score")->coverage == Coverage::partly);
   // The in-house model covers too, and is listed first.
   REQUIRE(!r.candidates.empty());
   CHECK(r.candidates[0].entry->id == "lvmc-readmit-30d");
   CHECK(r.candidates[0].in_house);
   CHECK(r.in_house == std::vector<std::string>{"lvmc-readmit-30d"});
-  CHECK(r.summary.starts_with("reuse: 3 entries cover this proposal (LVMC 30-day readmission model, "));
+  CHECK(r.summary.starts_with("reuse: 2 entries cover this proposal (LVMC 30-day readmission model, LACE index)"));
   CHECK(r.summary.ends_with("; validate it locally before use; already built in-house: lvmc-readmit-30d"));
   // The shipped catalogue alone holds no in-house model.
   ReuseReport shipped = reuse(kReadmission);
@@ -160,11 +162,11 @@ TEST_CASE("an outcome the vocabulary does not know: build, saying exactly what w
 }
 
 TEST_CASE("outcome relations: same, narrower, broader, overlapping, differs") {
-  // Proposal broad (any death): scores for 30-day death are narrower and cover.
+  // Proposal broad (any death): a score for 30-day death is narrower, so it only partly covers.
   ReuseReport broad = reuse(replace(kPneumonia, "outcome: 30-day mortality", "outcome: death"));
   CHECK(broad.resolution.concepts == std::vector<std::string>{"mortality"});
   CHECK(result_of(*find(broad, "curb-65"), "outcome") == "narrower");
-  CHECK(find(broad, "curb-65")->coverage == Coverage::covers);
+  CHECK(find(broad, "curb-65")->coverage == Coverage::partly);
   // Proposal narrow (ICU death): an in-hospital death score is broader: partly at best.
   ReuseReport narrow = reuse(replace(kPneumonia, "outcome: 30-day mortality", "outcome: icu mortality"));
   const Candidate* grace = find(narrow, "grace-in-hospital");

@@ -103,8 +103,8 @@ Criterion judge_outcome(const std::vector<std::string>& concepts, const Entry& e
     case ConceptRelation::narrower:
       return {"outcome", "narrower",
               "the score predicts " + theirs + detail + ", a kind of " + quoted_outcome(v, proposed) +
-                  ": it answers the proposal's question for that kind",
-              2};
+                  ": it answers only part of the proposal's question",
+              1};
     case ConceptRelation::broader:
       return {"outcome", "broader",
               "the score predicts " + theirs + detail + ", broader than " + quoted_outcome(v, proposed) +
@@ -461,6 +461,10 @@ ReuseReport match_proposal(const Proposal& proposal, const OutcomeResolver& reso
     };
     auto ka = key(a), kb = key(b);
     if (ka != kb) return ka < kb;
+    // A newer publication first (a newer version usually supersedes an older one), then id.
+    int year_a = a.entry->publication ? a.entry->publication->year : 0;
+    int year_b = b.entry->publication ? b.entry->publication->year : 0;
+    if (year_a != year_b) return year_a > year_b;
     return a.entry->id < b.entry->id;
   });
   for (size_t i = 0; i < report.candidates.size(); ++i) {

@@ -15,10 +15,11 @@
 // downgrades. A score narrower than the proposal on a stated criterion is
 // partly met (1).
 //
-//   outcome     same (2) | narrower (2: the score predicts a kind or a
-//               component of the proposed outcome) | broader (1) |
-//               overlapping (1: both include a narrower concept) | differs
-//               (0: they only share a broader concept, or are unrelated)
+//   outcome     same (2) | narrower (1: the score predicts only a kind or
+//               a component of the proposed outcome) | broader (1: the
+//               score's outcome also counts other events) | overlapping (1:
+//               both include a narrower concept) | differs (0: they only
+//               share a broader concept, or are unrelated)
 //   setting     all | not-stated (2) | some (1: the score is used in only
 //               some of the proposal's settings) | none (0)
 //   population  the lower of age and condition:
@@ -61,7 +62,8 @@
 // models first within a coverage level (the organisation already runs them);
 // then, for entries that cover or partly cover, evidence (checked before
 // from-memory, validated before not, higher c-statistic before lower or
-// none); then relevance; then id. Entries that only relate cannot be reused,
+// none); then relevance; then the more recent publication (a newer version
+// usually supersedes an older one); then id. Entries that only relate cannot be reused,
 // so evidence does not order them: how specifically their population is the
 // proposal's does (same condition, narrower, general or not stated, differs
 // or ages excluded), then relevance, then id.

@@ -59,6 +59,9 @@ int explain_run(const Plan& plan, const CheckOptions& o) {
   }
   std::optional<LocalTime> local = parse_local_datetime(o.run.substr(at + 1));
   if (!local) return usage_error("--run needs MODEL@YYYY-MM-DDTHH:MM (a local time in the model's zone)", self.usage);
+  if (std::string bad = unsupported_date(date::floor<date::days>(*local)); !bad.empty()) {
+    return usage_error("--run " + bad, self.usage);
+  }
   const Zone* zone = plan.models[static_cast<size_t>(model)].zone;
   Evaluation ev = evaluate_single(plan, model, zone->from_local(*local));
   if (o.format == "json") write_run_explanation_json(std::cout, plan, ev);

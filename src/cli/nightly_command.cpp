@@ -36,6 +36,7 @@ std::string parse_nightly_args(const std::vector<std::string>& args, NightlyOpti
     } else if (is_option(a, "--date")) {
       auto v = option_value(args, &i, "--date");
       if (!v || !(o->date = parse_date(*v))) return "--date needs a date YYYY-MM-DD";
+      if (std::string bad = unsupported_date(*o->date); !bad.empty()) return "--date " + bad;
     } else if (is_option(a, "--window")) {
       std::optional<long> n = whole_number(option_value(args, &i, "--window"), 1, 366);
       if (!n) return "--window needs a whole number of days from 1 to 366";
@@ -67,7 +68,7 @@ int cmd_nightly(const std::vector<std::string>& args) {
   const Plan& plan = *loaded;
   if (!o.date) o.date = today_in(*plan.zone);
   std::string error;
-  std::unique_ptr<HistoryStore> store = HistoryStore::open(o.db_path, HistoryStore::Mode::existing, &error);
+  std::unique_ptr<HistoryStore> store = HistoryStore::open(o.db_path, HistoryStore::Mode::read_only, &error);
   if (!store) {
     std::cerr << "readyby: " << error << "\n";
     return kExitBadInput;

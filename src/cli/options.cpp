@@ -69,6 +69,7 @@ bool take_window(const std::vector<std::string>& args, size_t* i, std::optional<
   if (is_option(args[*i], "--from")) {
     std::optional<std::string> v = option_value(args, i, "--from");
     if (!v || !(*from = parse_date(*v))) *error = "--from needs a date YYYY-MM-DD";
+    else if (std::string bad = unsupported_date(**from); !bad.empty()) *error = "--from " + bad;
     return true;
   }
   if (is_option(args[*i], "--days")) {
