@@ -106,3 +106,19 @@ TEST_CASE("registries layer: the shipped catalogue, READYBY_REGISTRIES, then --r
   unsetenv("READYBY_REGISTRIES");
   unsetenv("READYBY_REGISTRY");
 }
+
+TEST_CASE("catalog search says when no entry is a close match") {
+  TempTree t;
+  const std::string shipped = "READYBY_REGISTRY='" + kSource + "/registries'";
+  Outcome far = run_with(READYBY_BINARY, shipped, "catalog search tinnitus severity", t);
+  CHECK(far.status == 0);
+  CHECK(far.out.find("no entry is a close match: the best holds ") != std::string::npos);
+  Outcome nothing = run_with(READYBY_BINARY, shipped, "catalog search tinnitus", t);
+  CHECK(nothing.out.find("no entry is a close match: no entry contains these words") != std::string::npos);
+  Outcome near = run_with(READYBY_BINARY, shipped, "catalog search sepsis", t);
+  CHECK(near.out.find("close match") == std::string::npos);
+  CHECK(near.out.find("qsofa") != std::string::npos);
+  Outcome json = run_with(READYBY_BINARY, shipped, "catalog search tinnitus severity --format json", t);
+  CHECK(json.out.find("\"close_match\": false") != std::string::npos);
+  CHECK(json.out.find("\"relevance\": 0.") != std::string::npos);
+}

@@ -313,3 +313,37 @@ TEST_CASE("the temp-folder fallback for the cache is private or refused") {
   env.set("XDG_CACHE_HOME", dir.file("xdg").c_str());
   CHECK(index_dir() == dir.file("xdg") + "/readyby");
 }
+
+TEST_CASE("search reads every text field and measures how much of the query an entry holds") {
+  TempCache cache;
+  Diagnostics diags;
+  IndexOpen opened = CatalogIndex::open(testing::shipped().files, cache.dir.string(), &diags);
+  REQUIRE(opened.index);
+  const CatalogIndex& index = *opened.index;
+  std::string error;
+  // qSOFA's name and outcome do not say "sepsis"; its summary and publication title do.
+  std::vector<SearchHit> sepsis = index.search(query("sepsis", "", {}, 20), &error);
+  auto qsofa = std::find_if(sepsis.begin(), sepsis.end(), [](const SearchHit& h) { return h.id == "qsofa"; });
+  REQUIRE(qsofa != sepsis.end());
+  CHECK(qsofa->coverage == Approx(1.0));
+  // An input label: GRACE scores Killip class.
+  CHECK(ids_of(index.search(query("killip", "", {}, 20), &error)).size() >= 2);
+  // Coverage orders first: entries holding both words before those holding one.
+  std::vector<SearchHit> two = index.search(query("pneumonia mortality", "", {}, 20), &error);
+  REQUIRE(two.size() >= 2);
+  for (size_t i = 1; i < two.size(); ++i) CHECK(two[i - 1].coverage >= two[i].coverage);
+  // A word no entry holds weighs the most: nothing is a close match.
+  std::vector<SearchHit> none = index.search(query("tinnitus severity", "", {}, 20), &error);
+  REQUIRE(!none.empty());
+  CHECK(none.front().coverage < 0.5);
+  // Restricted to one column, and phrases matched as a whole.
+  SearchQuery q = query("", "", {}, 50);
+  q.phrases = {"atrial fibrillation"};
+  q.column = "population";
+  std::vector<std::string> af = ids_of(index.search(q, &error));
+  CHECK(std::find(af.begin(), af.end(), "cha2ds2-vasc") != af.end());
+  CHECK(std::find(af.begin(), af.end(), "curb-65") == af.end());
+  q.column = "nonsense";
+  CHECK(index.search(q, &error).empty());
+  CHECK(error == "no text column 'nonsense' in the catalogue index");
+}

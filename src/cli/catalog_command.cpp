@@ -153,7 +153,9 @@ int catalog_search(std::vector<std::string> args) {
   }
   std::printf("%zu match%s for \"%s\" among %zu entries\n", hits.size(), hits.size() == 1 ? "" : "es", o.text.c_str(),
               session.index->size());
-  if (!hits.empty() && !close) {
+  if (hits.empty()) {
+    std::printf("no entry is a close match: no entry contains these words\n");
+  } else if (!close) {
     std::printf("no entry is a close match: the best holds %.0f%% of the query (a close match holds %.0f%%); the "
                 "nearest are listed\n",
                 100 * hits.front().coverage, 100 * kCloseMatch);
