@@ -4,6 +4,7 @@
 #include <cctype>
 #include <cmath>
 #include <cstdio>
+#include <map>
 #include <set>
 #include <tuple>
 
@@ -181,8 +182,25 @@ Judgement judge_age(const Proposal& p, const Entry& e) {
 
 // How an entry's condition relates to the proposal's: by concept when both
 // name one, else by shared specific words.
+// The concepts each distinct condition text names, resolved once per match.
+class ConditionConcepts {
+ public:
+  explicit ConditionConcepts(const OutcomeResolver& resolver) : resolver_(resolver) {}
+  const std::vector<std::string>& of(const std::string& condition) {
+    auto it = cache_.find(condition);
+    if (it == cache_.end()) {
+      it = cache_.emplace(condition, resolver_.resolve(condition_before_exclusion(condition)).concepts).first;
+    }
+    return it->second;
+  }
+
+ private:
+  const OutcomeResolver& resolver_;
+  std::map<std::string, std::vector<std::string>> cache_;
+};
+
 Judgement judge_condition(const Proposal& p, const std::vector<std::string>& our_concepts, const Entry& e,
-                          const OutcomeResolver& resolver, const Vocabulary& v) {
+                          ConditionConcepts* concepts, const Vocabulary& v) {
   std::set<std::string> their_words = specific_condition_words(e.condition);
   if (p.condition.empty()) {
     return {2, "not-stated",
@@ -200,7 +218,7 @@ Judgement judge_condition(const Proposal& p, const std::vector<std::string>& our
             "the score was developed for " + e.condition + " only, narrower than the proposal's " + p.condition};
   }
   ConceptRelation best = ConceptRelation::unrelated;
-  std::vector<std::string> their_concepts = resolver.resolve(condition_before_exclusion(e.condition)).concepts;
+  const std::vector<std::string>& their_concepts = concepts->of(e.condition);
   for (const std::string& theirs : their_concepts) {
     for (const std::string& ours : our_concepts) {
       ConceptRelation r = v.relate(ours, theirs);
@@ -422,6 +440,7 @@ ReuseReport match_proposal(const Proposal& proposal, const OutcomeResolver& reso
   report.resolution = resolver.resolve(proposal.outcome);
   if (!proposal.condition.empty()) report.condition = resolver.resolve(condition_before_exclusion(proposal.condition));
   report.searched = searched.value_or(entries.size());
+  ConditionConcepts condition_concepts(resolver);
   for (const Entry& e : entries) {
     Candidate c;
     Criterion outcome = judge_outcome(report.resolution.concepts, e, vocabulary, &c.relation);
@@ -433,7 +452,7 @@ ReuseReport match_proposal(const Proposal& proposal, const OutcomeResolver& reso
     c.entry = &e;
     c.in_house = e.local();
     Judgement age = judge_age(proposal, e);
-    Judgement condition = judge_condition(proposal, report.condition.concepts, e, resolver, vocabulary);
+    Judgement condition = judge_condition(proposal, report.condition.concepts, e, &condition_concepts, vocabulary);
     c.criteria = {outcome, judge_setting(proposal, e, vocabulary), population_criterion(age, condition),
                   judge_time_point(proposal, e, vocabulary), judge_horizon(proposal, e)};
     int total = 0;
