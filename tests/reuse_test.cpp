@@ -103,7 +103,7 @@ TEST_CASE("a 30-day readmission proposal: LACE and the in-house model cover, HOS
   CHECK(r.candidates[0].in_house);
   CHECK(r.in_house == std::vector<std::string>{"lvmc-readmit-30d"});
   CHECK(r.summary.starts_with("reuse: 2 entries cover this proposal (LVMC 30-day readmission model, LACE index)"));
-  CHECK(r.summary.ends_with("; validate it locally before use; already built in-house: lvmc-readmit-30d"));
+  CHECK(r.summary.ends_with("; validate the one chosen on local data before use; already built in-house: lvmc-readmit-30d"));
   // The shipped catalogue alone holds no in-house model.
   ReuseReport shipped = reuse(kReadmission);
   CHECK(shipped.in_house.empty());

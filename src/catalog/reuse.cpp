@@ -497,7 +497,7 @@ ReuseReport match_proposal(const Proposal& proposal, const OutcomeResolver& reso
   if (covers > 0) {
     report.recommendation = Recommendation::reuse;
     report.summary = "reuse: " + std::to_string(covers) + (covers == 1 ? " entry covers" : " entries cover") +
-                     " this proposal (" + covering + "); validate it locally before use";
+                     " this proposal (" + covering + "); validate the one chosen on local data before use";
     if (!report.in_house.empty()) report.summary += "; already built in-house: " + report.in_house.front();
   } else if (partly > 0) {
     report.recommendation = Recommendation::adapt;
