@@ -108,3 +108,23 @@ TEST_CASE("text that is not UTF-8 is reported at the first bad byte for every fi
   CHECK_FALSE(load_proposal_text(text, "p.proposal.yaml", Vocabulary{}, &proposal_diags));
   CHECK(proposal_diags.render().find("p.proposal.yaml:2:11: error: the file is not valid UTF-8") == 0);
 }
+
+// Regression: control characters in a plan title (ESC, BEL) were printed raw
+// to the terminal. Every file kind goes through the YAML layer, which now
+// refuses them in text values, written raw or as an escape.
+TEST_CASE("control characters in a text value are an error at the value") {
+  const char* cases[] = {"title: \"red \\e[31m text\"\n", "title: \"bell \\a\"\n", "title: del \x7f here\n"};
+  for (const char* text : cases) {
+    INFO(text);
+    YamlNode root;
+    Diagnostics diags;
+    CHECK_FALSE(parse_yaml("f.yaml", text, &root, &diags));
+    CHECK(diags.render().find("f.yaml:1:8: error: control character U+00") == 0);
+    // The source line shown under the error is escaped too.
+    CHECK(diags.render().find('\x1b') == std::string::npos);
+    CHECK(diags.render().find('\x7f') == std::string::npos);
+  }
+  YamlNode root;
+  Diagnostics ok;
+  CHECK(parse_yaml("f.yaml", "title: \"two\\nlines\\twith a tab\"\n", &root, &ok));
+}

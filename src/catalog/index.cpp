@@ -320,12 +320,22 @@ std::optional<Duration> duration_or_null(const std::string& text) {
 
 // An FTS5 query matching any word of `text` or any of `phrases` (a phrase's
 // words in order): each quoted, joined by OR, each distinct once; within
-// `column` when one is named.
+// `column` when one is named. At most kMaxQueryWords distinct words of `text`
+// and kMaxQueryPhrases phrases are used, each word cut to kMaxWordBytes bytes
+// (whole characters): a pasted page of text must not make a query whose cost
+// grows with its square (a 100 KB query once took a minute).
+constexpr size_t kMaxQueryWords = 32;
+constexpr size_t kMaxQueryPhrases = 256;
+constexpr size_t kMaxWordBytes = 64;
 std::string fts_query(const std::string& text, const std::vector<std::string>& phrases, const std::string& column) {
   std::vector<std::string> terms;
-  auto add = [&terms](const std::string& words) {
+  // The quoted term of `words` (its words, each cut to whole characters), or "" when it has none.
+  auto term_of = [](const std::string& words) {
     std::string term, word;
     auto flush = [&] {
+      if (word.size() > kMaxWordBytes) word.resize(kMaxWordBytes);
+      while (!word.empty() && (static_cast<unsigned char>(word.back()) & 0xC0) == 0x80) word.pop_back();
+      if (!word.empty() && (static_cast<unsigned char>(word.back()) & 0xC0) == 0xC0) word.pop_back();
       if (!word.empty()) term += (term.empty() ? "" : " ") + word;
       word.clear();
     };
@@ -334,20 +344,24 @@ std::string fts_query(const std::string& text, const std::vector<std::string>& p
       else flush();
     }
     flush();
-    if (!term.empty() && std::find(terms.begin(), terms.end(), "\"" + term + "\"") == terms.end()) {
-      terms.push_back("\"" + term + "\"");
-    }
+    return term.empty() ? term : "\"" + term + "\"";
   };
+  auto add = [&terms](const std::string& term, size_t* budget) {
+    if (term.empty() || *budget == 0 || std::find(terms.begin(), terms.end(), term) != terms.end()) return;
+    terms.push_back(term);
+    --*budget;
+  };
+  size_t words_left = kMaxQueryWords, phrases_left = kMaxQueryPhrases;
   std::string word;
   for (char c : text + " ") {
     if (std::isalnum(static_cast<unsigned char>(c)) || static_cast<unsigned char>(c) >= 0x80) {
       word += c;
     } else if (!word.empty()) {
-      add(word);
+      add(term_of(word), &words_left);
       word.clear();
     }
   }
-  for (const std::string& p : phrases) add(p);
+  for (const std::string& p : phrases) add(term_of(p), &phrases_left);
   if (terms.empty()) return "";
   std::string any = join(terms, " OR ");
   return column.empty() ? any : column + " : (" + any + ")";

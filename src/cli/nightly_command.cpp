@@ -44,7 +44,7 @@ std::string parse_nightly_args(const std::vector<std::string>& args, NightlyOpti
     } else if (std::string error; take_format(args, &i, {"text", "json", "junit", "metrics"}, &o->format, &error)) {
       if (!error.empty()) return error;
     } else if (a.starts_with("-")) {
-      return "unknown option '" + a + "'";
+      return unknown_option(a, nightly_command().usage);
     } else if (o->plan_path.empty()) {
       o->plan_path = a;
     } else {
@@ -81,6 +81,10 @@ int cmd_nightly(const std::vector<std::string>& args) {
   }
   store.reset();
   NightlyReport report = evaluate_nightly(plan, *history, first, *o.date, o.window);
+  report.evaluated_at = std::chrono::time_point_cast<Seconds>(std::chrono::system_clock::now());
+  if (o.format != "text") {  // the text report shows them in place
+    for (const SilentNode& q : report.silent) std::cerr << "readyby: warning: " << silent_warning(plan, q, plan.zone) << "\n";
+  }
   if (o.format == "json") write_nightly_json(std::cout, plan, report);
   else if (o.format == "junit") write_nightly_junit(std::cout, plan, report);
   else if (o.format == "metrics") write_nightly_metrics(std::cout, plan, report);

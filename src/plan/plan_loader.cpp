@@ -9,6 +9,7 @@
 #include <unordered_map>
 
 #include "plan/lineage.h"
+#include "time/zone_names.h"
 #include "util/text.h"
 #include "util/yaml_fields.h"
 #include "util/yaml_tree.h"
@@ -72,6 +73,7 @@ class Loader {
     load();
     PlanLoadResult out;
     out.errors = diags_.sorted();
+    out.warnings = diags_.warnings();
     out.rendered = diags_.render();
     if (out.errors.empty()) out.plan = std::move(plan_);
     return out;
@@ -146,7 +148,9 @@ class Loader {
     const Zone* z = Zone::find(v->value);
     if (!z) {
       if (zone_names_.empty()) zone_names_ = Zone::names();
-      error(v->pos, "unknown time zone '" + v->value + "'" + did_you_mean(v->value, zone_names_));
+      error(v->pos, "unknown time zone '" + v->value + "'" + zone_did_you_mean(v->value, zone_names_));
+    } else if (std::string advice = legacy_zone_advice(v->value); !advice.empty()) {
+      diags_.warning(path_, v->pos, advice);
     }
     return z;
   }
