@@ -94,9 +94,14 @@ catalog_bench() {
   echo "index build (validate + SQLite/FTS5, 5,000 entries): median $(printf '%s\n' "${builds[@]}" | sort -n | sed -n 2p) ms of 3"
   echo "reuse (index exists): median $(READYBY_REGISTRY="$cat" READYBY_CACHE_DIR="$cache" median_ms "$READYBY" reuse "$ROOT/pipelines/readmit-30d.proposal.yaml") ms of $runs"
   echo "catalog search (index exists): median $(READYBY_REGISTRY="$cat" READYBY_CACHE_DIR="$cache" median_ms "$READYBY" catalog search acute risk --setting ward) ms of $runs"
+  echo "reuse with a condition (index exists): median $(READYBY_REGISTRY="$cat" READYBY_CACHE_DIR="$cache" median_ms "$READYBY" reuse "$ROOT/pipelines/proposal-set/af-stroke.proposal.yaml") ms of $runs"
 }
 echo "== catalogue: generated 5,000 entries =="
 catalog_bench || echo "catalogue benchmark failed"
+
+echo "== catalogue: the labelled proposal set (pipelines/proposal-set) =="
+"$BUILD_DIR/proposal_set_bench" "$ROOT/registries" "$ROOT/pipelines/proposal-set" | tail -n 4 ||
+  echo "proposal-set benchmark failed"
 
 # ---- history: record 1,000,000 landing rows; nightly over 365 days x 500 sources ----
 # Guarded: a failure here is reported and does not stop the other sections.

@@ -31,12 +31,14 @@ run nightly "$PLAN" --db "$DB" --date 2026-03-03
 # backtest the forecast against what happened from 2026-02-26 on.
 run forecast "$PLAN" --db "$DB" --from 2026-03-04 --days 28
 run forecast "$PLAN" --db "$DB" --backtest-from 2026-02-26
-# The screening report for two fictional proposals.
+# The screening report for two fictional proposals, with the demo hospital's
+# own registry of in-house models (pipelines/registry/) layered over the
+# shipped catalogue of published scores.
 export READYBY_CACHE_DIR="${READYBY_CACHE_DIR:-$PWD/build/cache}"
-run intake pipelines/readmit-30d.proposal.yaml --from 2026-02-22 --days 28 --db "$DB"
-run intake pipelines/day-case-return-to-theatre.proposal.yaml --from 2026-02-22 --days 28 --format markdown
+run intake pipelines/readmit-30d.proposal.yaml --from 2026-02-22 --days 28 --db "$DB" --registry pipelines/registry
+run intake pipelines/day-case-return-to-theatre.proposal.yaml --from 2026-02-22 --days 28 --registry pipelines/registry --format markdown
 # The report page: calendars, chain timelines, lineage, history and the screening, in one HTML file.
 REPORT="$PWD/build/larkspur-report.html"
 run report "$PLAN" --from 2026-02-22 --days 28 --db "$DB" --date 2026-03-03 \
-    --proposal pipelines/readmit-30d.proposal.yaml --out "$REPORT"
+    --proposal pipelines/readmit-30d.proposal.yaml --registry pipelines/registry --out "$REPORT"
 echo "Open file://$REPORT in a browser to see the report page."

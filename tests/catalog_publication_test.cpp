@@ -3,6 +3,8 @@
 // and says which facts were checked and which are from memory.
 #include <catch2/catch.hpp>
 
+#include <cctype>
+
 #include "catalog_fixture.h"
 
 using namespace readyby;
@@ -15,8 +17,10 @@ struct PublicationCheck {
   const char* journal;
   std::vector<const char*> elements;   // input elements in catalogue order
   int min;                             // score_range; -1, -1: no range
-  int max;
+  int max;                             // kOpen: no fixed maximum (points per unit)
 };
+
+constexpr int kOpen = 1 << 30;
 
 const std::vector<PublicationCheck> kChecks = {
 #include "publication_checks_a.inc"
@@ -44,8 +48,30 @@ TEST_CASE("well-known entries match their primary publications") {
       CHECK_FALSE(e->score_range);
     } else {
       REQUIRE(e->score_range);
-      CHECK(e->score_range->first == c.min);
-      CHECK(e->score_range->second == c.max);
+      CHECK(e->score_range->min == c.min);
+      CHECK(e->score_range->max == (c.max == kOpen ? std::nullopt : std::optional<long>(c.max)));
     }
   }
+}
+
+// registries/SCHEMA.md: a `checked` entry carries, directly above its
+// `provenance:` line, a comment that dates the check ("# checked YYYY-MM-DD")
+// and names what was compared with which source ("against ...").
+TEST_CASE("every checked entry carries a dated note of what was checked against which source") {
+  const testing::Shipped& s = testing::shipped();
+  size_t checked = 0;
+  for (const RegistryFiles::EntryFile& f : s.files.entries) {
+    const std::string& text = f.file.text;
+    size_t at = text.find("\nprovenance: checked");
+    if (at == std::string::npos) continue;
+    ++checked;
+    INFO(f.file.path);
+    size_t line_start = text.rfind('\n', at - 1);
+    std::string note = text.substr(line_start + 1, at - line_start - 1);
+    bool dated = note.size() > 20 && note.starts_with("# checked ") && std::isdigit(static_cast<unsigned char>(note[10])) &&
+                 note[14] == '-' && note[17] == '-';
+    CHECK(dated);
+    CHECK(note.find(" against ") != std::string::npos);
+  }
+  CHECK(checked >= 20);
 }

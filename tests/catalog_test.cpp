@@ -114,7 +114,22 @@ TEST_CASE("every shipped entry validates and uses only defined terms") {
     CHECK((e.provenance == "from-memory" || e.provenance == "checked"));
   }
   CHECK(published >= 120);
-  CHECK(local == 3);
+  CHECK(local == 0);   // the shipped catalogue holds published scores only
+}
+
+TEST_CASE("the demo hospital's in-house models live in the demo's own registry") {
+  const testing::Shipped& s = testing::with_demo_registry();
+  INFO(s.errors);
+  REQUIRE(s.errors.empty());
+  std::vector<std::string> local;
+  for (const Entry& e : s.catalog.entries) {
+    if (!e.local()) continue;
+    local.push_back(e.id);
+    CHECK(e.layer == 1);
+    CHECK(e.summary.find("fictional") != std::string::npos);
+  }
+  CHECK(local == std::vector<std::string>{"lvmc-no-show", "lvmc-readmit-30d", "lvmc-ward-deterioration"});
+  CHECK(s.catalog.entries.size() == testing::shipped().catalog.entries.size() + 3);
 }
 
 TEST_CASE("an entry loads into a plain struct") {
@@ -134,7 +149,8 @@ TEST_CASE("an entry loads into a plain struct") {
   CHECK(*e.inputs[1].points == 2);
   CHECK(e.inputs[1].when == ">= 75 years");
   CHECK(e.inputs[1].recency->seconds == 30 * 86400);
-  CHECK(*e.score_range == std::make_pair(0L, 3L));
+  CHECK(*e.score_range == ScoreRange{0, 3});
+  CHECK(e.score_range->str() == "0 to 3");
   CHECK(e.publication->year == 2010);
   CHECK(e.reference() == "Example A. An example. Example Journal 2010.");
   CHECK(catalog.find("demo-score") == &e);
@@ -173,6 +189,19 @@ TEST_CASE("bad catalogue entries get exact messages and positions") {
       {"inverted score range", with_line(24, "score_range: {min: 3, max: 0}"),
        {p + ":24:20: error: score_range of entry 'demo-score' is inverted: min 3 is greater than max 0"}},
       {"no score range is fine", with_line(24, "# no range"), {}},
+      {"points per unit, open maximum", with_lines(22, 24, "    per: {amount: 5, unit: years}\n    recency: P30D\nscore_range: {min: 0}"), {}},
+      {"open maximum needs points per unit", with_line(24, "score_range: {min: 0}"),
+       {p + ":24:14: error: missing required key 'max' in the score_range of entry 'demo-score' (only a score with "
+            "points per unit, 'per', may leave its maximum open)"}},
+      {"per amount must be positive", with_line(22, "    per: {amount: 0, unit: years}"),
+       {p + ":22:19: error: 'amount' of 'per' of input 2 of entry 'demo-score' must be greater than 0"}},
+      {"per needs points", with_lines(21, 22, "    per: {amount: 5, unit: years}"),
+       {p + ":19:5: error: missing required key 'points' in input 2 of entry 'demo-score' (a points score gives each "
+            "item its points)",
+        p + ":21:5: error: 'per' in input 2 of entry 'demo-score' needs 'points' (the points for every amount)"}},
+      {"per is a map", with_line(22, "    per: year"),
+       {p + ":22:10: error: 'per' of input 2 of entry 'demo-score' must be a map such as {amount: 1, unit: year}, "
+            "found the text 'year'"}},
       {"missing publication", with_lines(25, 29, "# no publication"),
        {p + ":1:1: error: missing publication for entry 'demo-score': a published score needs its primary "
             "publication (authors, year, title, journal)"}},
@@ -203,6 +232,29 @@ TEST_CASE("bad catalogue entries get exact messages and positions") {
   for (const Case& c : cases) {
     INFO(c.name);
     CHECK(errors_of(files_with(c.text)) == c.errors);
+  }
+}
+
+TEST_CASE("points per unit load and print") {
+  Catalog catalog;
+  Diagnostics diags;
+  REQUIRE(load_catalog(files_with(with_lines(22, 24, "    per: {amount: 5, unit: year}\nscore_range: {min: 0}")), &catalog,
+                       &diags));
+  const Entry& e = catalog.entries[0];
+  REQUIRE(e.inputs[1].per);
+  CHECK(e.inputs[1].per->amount == 5);
+  CHECK(e.inputs[1].per->str() == "per 5 years");
+  CHECK(PointsPer{1, "NIHSS point"}.str() == "per NIHSS point");
+  CHECK_FALSE(e.score_range->max);
+  CHECK(e.score_range->str() == "0 upwards");
+  // PESI, PSI and ASTRAL count points per unit and have no fixed maximum.
+  for (const char* id : {"pesi", "psi-port", "astral"}) {
+    INFO(id);
+    const Entry* shipped = testing::shipped().catalog.find(id);
+    REQUIRE(shipped);
+    CHECK(std::any_of(shipped->inputs.begin(), shipped->inputs.end(), [](const EntryInput& in) { return in.per.has_value(); }));
+    REQUIRE(shipped->score_range);
+    CHECK_FALSE(shipped->score_range->max);
   }
 }
 

@@ -206,9 +206,16 @@ TEST_CASE("feasibility: only covering and partly covering candidates are checked
   Entry related = entry_of({input("lab.sodium")});
   related.id = "c";
   ReuseReport reuse;
-  reuse.candidates = {{&covers, Coverage::covers, 1, false, {}},
-                      {&partly, Coverage::partly, 2, true, {}},
-                      {&related, Coverage::related, 3, false, {}}};
+  auto candidate = [](const Entry* e, Coverage coverage, int rank, bool in_house) {
+    Candidate c;
+    c.entry = e;
+    c.coverage = coverage;
+    c.rank = rank;
+    c.in_house = in_house;
+    return c;
+  };
+  reuse.candidates = {candidate(&covers, Coverage::covers, 1, false), candidate(&partly, Coverage::partly, 2, true),
+                      candidate(&related, Coverage::related, 3, false)};
   Feasibility f = assess_feasibility(plan(), 0, runs(), reuse, testing::shipped().catalog.vocabulary);
   REQUIRE(f.candidates.size() == 2);
   CHECK(f.candidates[0].entry->id == "a");

@@ -29,6 +29,15 @@ struct TempCache {
   }
 };
 
+SearchQuery query(const std::string& text, const std::string& setting, std::vector<std::string> outcomes, size_t limit) {
+  SearchQuery q;
+  q.text = text;
+  q.setting = setting;
+  q.outcomes = std::move(outcomes);
+  q.limit = limit;
+  return q;
+}
+
 std::vector<std::string> ids_of(const std::vector<SearchHit>& hits) {
   std::vector<std::string> out;
   for (const SearchHit& h : hits) out.push_back(h.id);
@@ -123,7 +132,7 @@ TEST_CASE("search ranks by BM25 and filters by setting and outcome") {
 
   // The catalogue holds several pneumonia severity scores; the classic three
   // must be among the first ten.
-  std::vector<std::string> pneumonia = ids_of(index.search({"pneumonia severity", "", {}, 10}, &error));
+  std::vector<std::string> pneumonia = ids_of(index.search(query("pneumonia severity", "", {}, 10), &error));
   CHECK(error.empty());
   REQUIRE(pneumonia.size() == 10);
   for (const char* id : {"crb-65", "curb-65", "psi-port"}) {
@@ -132,17 +141,17 @@ TEST_CASE("search ranks by BM25 and filters by setting and outcome") {
   }
 
   // Stemming: "readmissions" finds the readmission indices.
-  std::vector<std::string> readmit = ids_of(index.search({"readmissions", "", {"readmission-30d"}, 20}, &error));
+  std::vector<std::string> readmit = ids_of(index.search(query("readmissions", "", {"readmission-30d"}, 20), &error));
   CHECK(std::find(readmit.begin(), readmit.end(), "lace-index") != readmit.end());
-  for (const SearchHit& h : index.search({"readmissions", "", {"readmission-30d"}, 20}, &error)) {
+  for (const SearchHit& h : index.search(query("readmissions", "", {"readmission-30d"}, 20), &error)) {
     CHECK(h.outcome == "readmission-30d");
   }
-  for (const SearchHit& h : index.search({"mortality", "intensive-care", {}, 50}, &error)) {
+  for (const SearchHit& h : index.search(query("mortality", "intensive-care", {}, 50), &error)) {
     INFO(h.id);
     CHECK(std::find(h.settings.begin(), h.settings.end(), "intensive-care") != h.settings.end());
   }
-  CHECK(index.search({"  ", "", {}, 5}, &error).empty());
-  CHECK(index.search({"\"quoted\" AND (weird) NEAR", "", {}, 5}, &error).size() <= 5);
+  CHECK(index.search(query("  ", "", {}, 5), &error).empty());
+  CHECK(index.search(query("\"quoted\" AND (weird) NEAR", "", {}, 5), &error).size() <= 5);
   CHECK(error.empty());
 }
 
@@ -303,4 +312,38 @@ TEST_CASE("the temp-folder fallback for the cache is private or refused") {
   // XDG_CACHE_HOME is preferred when set.
   env.set("XDG_CACHE_HOME", dir.file("xdg").c_str());
   CHECK(index_dir() == dir.file("xdg") + "/readyby");
+}
+
+TEST_CASE("search reads every text field and measures how much of the query an entry holds") {
+  TempCache cache;
+  Diagnostics diags;
+  IndexOpen opened = CatalogIndex::open(testing::shipped().files, cache.dir.string(), &diags);
+  REQUIRE(opened.index);
+  const CatalogIndex& index = *opened.index;
+  std::string error;
+  // qSOFA's name and outcome do not say "sepsis"; its summary and publication title do.
+  std::vector<SearchHit> sepsis = index.search(query("sepsis", "", {}, 20), &error);
+  auto qsofa = std::find_if(sepsis.begin(), sepsis.end(), [](const SearchHit& h) { return h.id == "qsofa"; });
+  REQUIRE(qsofa != sepsis.end());
+  CHECK(qsofa->coverage == Approx(1.0));
+  // An input label: GRACE scores Killip class.
+  CHECK(ids_of(index.search(query("killip", "", {}, 20), &error)).size() >= 2);
+  // Coverage orders first: entries holding both words before those holding one.
+  std::vector<SearchHit> two = index.search(query("pneumonia mortality", "", {}, 20), &error);
+  REQUIRE(two.size() >= 2);
+  for (size_t i = 1; i < two.size(); ++i) CHECK(two[i - 1].coverage >= two[i].coverage);
+  // A word no entry holds weighs the most: nothing is a close match.
+  std::vector<SearchHit> none = index.search(query("tinnitus severity", "", {}, 20), &error);
+  REQUIRE(!none.empty());
+  CHECK(none.front().coverage < 0.5);
+  // Restricted to one column, and phrases matched as a whole.
+  SearchQuery q = query("", "", {}, 50);
+  q.phrases = {"atrial fibrillation"};
+  q.column = "population";
+  std::vector<std::string> af = ids_of(index.search(q, &error));
+  CHECK(std::find(af.begin(), af.end(), "cha2ds2-vasc") != af.end());
+  CHECK(std::find(af.begin(), af.end(), "curb-65") == af.end());
+  q.column = "nonsense";
+  CHECK(index.search(q, &error).empty());
+  CHECK(error == "no text column 'nonsense' in the catalogue index");
 }

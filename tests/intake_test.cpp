@@ -181,8 +181,11 @@ Outcome run(const std::string& args) {
 const std::string kPipelines = std::string(READYBY_SOURCE_DIR) + "/pipelines/";
 const std::string kWindow = " --from 2026-02-22 --days 28";
 
+// The demo screens its proposals with the demo hospital's own registry layered on.
+const std::string kDemoRegistry = " --registry " + kPipelines + "registry";
+
 Json demo_json(const std::string& proposal, int* status) {
-  Outcome o = run("intake " + kPipelines + proposal + kWindow + " --format json");
+  Outcome o = run("intake " + kPipelines + proposal + kWindow + kDemoRegistry + " --format json");
   *status = o.status;
   Json doc;
   INFO(o.out);
@@ -321,7 +324,9 @@ TEST_CASE("intake golden: day-case return to theatre — nothing covers, timing 
   CHECK(doc.num("timing.patterns[1].cheapest.seconds") == 900);
 
   CHECK(doc.str("reuse.recommendation") == "build");
-  CHECK(doc.size("reuse.candidates") == 0);
+  for (size_t i = 0; i < doc.size("reuse.candidates"); ++i) {
+    CHECK(doc.str("reuse.candidates[" + std::to_string(i) + "].coverage") == "related");
+  }
   CHECK(doc.size("feasibility") == 0);
 
   CHECK(doc.str("recommendation.decision") == "fix-data-plan-first");
@@ -336,7 +341,7 @@ TEST_CASE("intake golden: day-case return to theatre — nothing covers, timing 
 }
 
 TEST_CASE("intake text and markdown carry the decision, its reasons and the cautions") {
-  Outcome text = run("intake " + kPipelines + "readmit-30d.proposal.yaml" + kWindow);
+  Outcome text = run("intake " + kPipelines + "readmit-30d.proposal.yaml" + kWindow + kDemoRegistry);
   CHECK(text.status == 1);
   CHECK(text.out.find("recommendation: reuse-and-validate\n") != std::string::npos);
   CHECK(text.out.find("  LACE index [lace-index] covers — computable: on-time\n") != std::string::npos);

@@ -73,6 +73,7 @@ TimingSummary failing() {
 ReuseReport reuse_of(size_t searched) {
   ReuseReport r;
   r.searched = searched;
+  r.outcome = "unplanned return to theatre";
   return r;
 }
 
@@ -124,7 +125,7 @@ TEST_CASE("recommendation table: every row") {
       {"timing fails and nothing covers", failing(), {}, Decision::fix_data_plan_first, "",
        "cheapest fix for the most frequent failure (fails every Monday (4 of 4 Monday runs)): 'bed_board' must land "
        "50m earlier; 1 more failure pattern needs its own fix",
-       "a new model is justified only once its data arrives on time"},
+       "search the literature before building, and fix the data plan first"},
       {"timing fails and the covering score has gaps", failing(), {hospital_gaps}, Decision::fix_data_plan_first, "",
        "5 of 28 runs of 'm' fail", "HOSPITAL score covers the outcome but is computable: gaps"},
       {"covers with gaps, timing holds", on_time(), {hospital_gaps}, Decision::close_gaps_or_build, "hospital-score",
@@ -135,10 +136,13 @@ TEST_CASE("recommendation table: every row") {
        "adapt and validate it", "weigh closing the coverage gap"},
       {"covers with gaps beats partly on time", on_time(), {lace_partly, hospital_gaps}, Decision::close_gaps_or_build,
        "hospital-score", "HOSPITAL score", "late every Monday"},
-      {"nothing covers, timing holds", on_time(), {}, Decision::build, "", "a new model is justified",
-       "searched 134 catalogue entries"},
+      {"nothing covers, timing holds", on_time(), {}, Decision::build, "",
+       "no catalogue entry matched, and the vocabulary did not recognise 'unplanned return to theatre' — search the "
+       "literature before building; every run of 'm' gets its data in time",
+       "searched 134 catalogue entries; the vocabulary did not recognise the outcome 'unplanned return to theatre'"},
       {"nothing covers, only optional features miss", degraded_only, {}, Decision::build, "",
-       "a new model is justified", "optional feature 'social_risk' not always fresh"},
+       "; no run of 'm' fails, but 2 of 20 runs are degraded (optional feature 'social_risk' not always fresh)",
+       "optional feature 'social_risk' not always fresh"},
   };
   for (const Case& c : cases) {
     INFO(c.name);
@@ -152,6 +156,26 @@ TEST_CASE("recommendation table: every row") {
     CHECK(r.summary.find(c.in_summary) != std::string::npos);
     CHECK(any_reason(r, c.in_reasons));
     CHECK(r.cheapest_fix.has_value() == (c.decision == Decision::fix_data_plan_first));
+  }
+}
+
+TEST_CASE("recommendation: never 'justified', and a degraded run is never 'in time'") {
+  TimingSummary degraded = on_time();
+  degraded.verdict = TimingVerdict::at_risk;
+  degraded.ok = 15;
+  degraded.degraded = 5;
+  degraded.degraded_features = {"bed_state"};
+  ReuseReport recognised = reuse_of(200);
+  recognised.resolution.concepts = {"anastomotic-leak"};
+  for (const TimingSummary& t : {on_time(), degraded, failing()}) {
+    for (const ReuseReport& reuse : {reuse_of(200), recognised}) {
+      IntakeRecommendation r = recommend_intake(t, reuse, Feasibility{});
+      INFO(r.summary);
+      CHECK(r.summary.find("justified") == std::string::npos);
+      for (const std::string& reason : r.reasons) CHECK(reason.find("justified") == std::string::npos);
+      if (t.degraded > 0 || t.failed > 0) CHECK(r.summary.find("in time") == std::string::npos);
+      if (r.decision == Decision::build) CHECK(r.summary.find("search the literature") != std::string::npos);
+    }
   }
 }
 

@@ -8,6 +8,11 @@
 
 using namespace readyby;
 
+// The matching engine (catalog/reuse.h) on the shipped catalogue: verdicts
+// criterion by criterion, coverage, ranking and the recommendation. Every
+// entry is offered to the engine here; catalog retrieval is tested in
+// retrieval_test.cpp.
+
 namespace {
 
 const char kReadmission[] = R"(proposal: readmit-30d
@@ -28,18 +33,23 @@ population: {age_min: 18, condition: community-acquired pneumonia}
 time_point: presentation
 )";
 
+const Vocabulary& vocabulary() { return testing::shipped().catalog.vocabulary; }
+
+const OutcomeResolver& resolver() {
+  static const OutcomeResolver kResolver(vocabulary());
+  return kResolver;
+}
+
 Proposal proposal_of(const std::string& text) {
   Diagnostics diags;
-  std::optional<Proposal> p = load_proposal_text(text, "p.yaml", testing::shipped().catalog.vocabulary, &diags);
+  std::optional<Proposal> p = load_proposal_text(text, "p.yaml", vocabulary(), &diags);
   INFO(diags.render());
   REQUIRE(p);
   return *p;
 }
 
 ReuseReport reuse(const std::string& text, const std::vector<Entry>& entries = testing::shipped().catalog.entries) {
-  const Vocabulary& v = testing::shipped().catalog.vocabulary;
-  Proposal p = proposal_of(text);
-  return match_proposal(p, OutcomeResolver(v).resolve(p.outcome), v, entries);
+  return match_proposal(proposal_of(text), resolver(), vocabulary(), entries);
 }
 
 const Candidate* find(const ReuseReport& r, const std::string& id) {
@@ -62,35 +72,48 @@ std::string replace(std::string text, const std::string& from, const std::string
   return text.replace(at, from.size(), to);
 }
 
+size_t rank_of(const ReuseReport& r, const std::string& id) {
+  const Candidate* c = find(r, id);
+  return c ? static_cast<size_t>(c->rank) : 0;
+}
+
 }  // namespace
 
-TEST_CASE("a 30-day readmission proposal finds the readmission indices as covers") {
-  ReuseReport r = reuse(kReadmission);
+TEST_CASE("a 30-day readmission proposal: LACE and the in-house model cover, HOSPITAL partly") {
+  // The demo hospital's registry layered over the shipped catalogue.
+  const std::vector<Entry>& demo = testing::with_demo_registry().catalog.entries;
+  ReuseReport r = reuse(kReadmission, demo);
   CHECK(r.recommendation == Recommendation::reuse);
-  CHECK(r.searched == testing::shipped().catalog.entries.size());
+  CHECK(r.searched == demo.size());
   CHECK(r.resolution.concepts == std::vector<std::string>{"readmission-30d"});
   for (const char* id : {"lace-index", "hospital-score"}) {
     INFO(id);
     const Candidate* c = find(r, id);
     REQUIRE(c);
-    CHECK(c->coverage == Coverage::covers);
     CHECK(c->criteria.size() == 5);
   }
   CHECK(result_of(*find(r, "lace-index"), "outcome") == "same");
-  CHECK(result_of(*find(r, "hospital-score"), "outcome") == "narrower");  // potentially avoidable readmission
-  // The shipped in-house model covers too, and is flagged first.
+  CHECK(find(r, "lace-index")->coverage == Coverage::covers);
+  // HOSPITAL predicts potentially avoidable readmission, a narrower outcome: partly.
+  CHECK(result_of(*find(r, "hospital-score"), "outcome") == "narrower");
+  CHECK(find(r, "hospital-score")->coverage == Coverage::partly);
+  // The in-house model covers too, and is listed first.
   REQUIRE(!r.candidates.empty());
   CHECK(r.candidates[0].entry->id == "lvmc-readmit-30d");
   CHECK(r.candidates[0].in_house);
   CHECK(r.in_house == std::vector<std::string>{"lvmc-readmit-30d"});
-  CHECK(r.summary ==
-        "reuse: 3 entries cover this proposal (LVMC 30-day readmission model, LACE index, HOSPITAL score); "
-        "already built in-house: lvmc-readmit-30d");
+  CHECK(r.summary.starts_with("reuse: 2 entries cover this proposal (LVMC 30-day readmission model, LACE index)"));
+  CHECK(r.summary.ends_with("; validate the one chosen on local data before use; already built in-house: lvmc-readmit-30d"));
+  // The shipped catalogue alone holds no in-house model.
+  ReuseReport shipped = reuse(kReadmission);
+  CHECK(shipped.in_house.empty());
+  CHECK_FALSE(find(shipped, "lvmc-readmit-30d"));
 }
 
 TEST_CASE("a pneumonia 30-day mortality proposal in the ED finds the pneumonia severity scores") {
   ReuseReport r = reuse(kPneumonia);
   CHECK(r.recommendation == Recommendation::reuse);
+  CHECK(r.condition.concepts == std::vector<std::string>{"community-acquired-pneumonia"});
   for (const char* id : {"curb-65", "psi-port"}) {
     INFO(id);
     const Candidate* c = find(r, id);
@@ -98,7 +121,7 @@ TEST_CASE("a pneumonia 30-day mortality proposal in the ED finds the pneumonia s
     CHECK(c->coverage == Coverage::covers);
     CHECK(result_of(*c, "population") == "matches");
   }
-  // A 30-day mortality score for another condition only partly covers.
+  // A 30-day mortality score for another condition only relates.
   const Candidate* pe = find(r, "pesi");
   REQUIRE(pe);
   CHECK(pe->coverage == Coverage::related);
@@ -120,22 +143,30 @@ TEST_CASE("a paediatric proposal is not covered by adult-only scores") {
   CHECK(find(by_word, "curb-65")->coverage == Coverage::related);
 }
 
-TEST_CASE("an outcome absent from the catalogue gets build, with the count searched") {
+TEST_CASE("an outcome the vocabulary does not know: build, saying exactly what was found") {
   ReuseReport r = reuse(replace(kReadmission, "unplanned readmission within 30 days", "unplanned return to theatre"));
   CHECK(r.recommendation == Recommendation::build);
   CHECK(r.candidates.empty());
   CHECK(r.resolution.unresolved == std::vector<std::string>{"unplanned", "return", "theatre"});
-  CHECK(r.summary == "build: no established score found; searched " +
-                         std::to_string(testing::shipped().catalog.entries.size()) +
-                         " entries; the outcome matched no concept of the vocabulary");
+  CHECK(r.summary == "build: no catalogue entry matched, and the vocabulary did not recognise 'unplanned return to "
+                     "theatre' — search the literature before building (searched " +
+                         std::to_string(testing::shipped().catalog.entries.size()) + " entries)");
+  CHECK(r.summary.find("justified") == std::string::npos);
+  // A recognised outcome with nothing that covers says so, and still sends to the literature first.
+  ReuseReport known = reuse(
+      replace(kReadmission, "unplanned readmission within 30 days", "leaving the emergency department before being seen"));
+  CHECK(known.recommendation == Recommendation::build);
+  CHECK(known.summary.starts_with("build: no catalogue entry covers or partly covers this proposal (the outcome read "
+                                  "as 'Leaving the emergency department before being seen'; searched "));
+  CHECK(known.summary.ends_with("— search the literature for a published score before building"));
 }
 
-TEST_CASE("broader and narrower outcomes") {
-  // Proposal broad (any death): scores for 30-day death are narrower and count.
+TEST_CASE("outcome relations: same, narrower, broader, overlapping, differs") {
+  // Proposal broad (any death): a score for 30-day death is narrower, so it only partly covers.
   ReuseReport broad = reuse(replace(kPneumonia, "outcome: 30-day mortality", "outcome: death"));
   CHECK(broad.resolution.concepts == std::vector<std::string>{"mortality"});
   CHECK(result_of(*find(broad, "curb-65"), "outcome") == "narrower");
-  CHECK(find(broad, "curb-65")->coverage == Coverage::covers);
+  CHECK(find(broad, "curb-65")->coverage == Coverage::partly);
   // Proposal narrow (ICU death): an in-hospital death score is broader: partly at best.
   ReuseReport narrow = reuse(replace(kPneumonia, "outcome: 30-day mortality", "outcome: icu mortality"));
   const Candidate* grace = find(narrow, "grace-in-hospital");
@@ -145,32 +176,161 @@ TEST_CASE("broader and narrower outcomes") {
   // Siblings (30-day vs in-hospital death) only relate.
   CHECK(result_of(*find(reuse(kPneumonia), "grace-in-hospital"), "outcome") == "differs");
   CHECK(find(reuse(kPneumonia), "grace-in-hospital")->coverage == Coverage::related);
+  // Stroke and thromboembolism overlap in ischaemic stroke: CHA2DS2-VASc partly answers a stroke question.
+  ReuseReport stroke = reuse(R"(proposal: af-stroke
+outcome: stroke
+horizon: P365D
+settings: [specialty-clinic]
+population: {condition: atrial fibrillation}
+time_point: outpatient-visit
+)");
+  const Candidate* vasc = find(stroke, "cha2ds2-vasc");
+  REQUIRE(vasc);
+  CHECK(result_of(*vasc, "outcome") == "overlapping");
+  CHECK(vasc->coverage == Coverage::partly);
+  CHECK(vasc->criteria[0].detail.find("both include 'Ischaemic stroke'") != std::string::npos);
 }
 
-TEST_CASE("partial cover gives adapt, and horizons compare by ratio") {
-  // Same outcome in the ward at admission with a 90-day horizon: setting, time point and horizon differ.
-  std::string text = replace(replace(replace(kPneumonia, "[emergency-department]", "[intensive-care]"),
+TEST_CASE("criteria the proposal leaves unstated never downgrade") {
+  ReuseReport r = reuse("proposal: pe\noutcome: pulmonary embolism\n");
+  for (const char* id : {"simplified-wells-pe", "revised-geneva"}) {
+    INFO(id);
+    const Candidate* c = find(r, id);
+    REQUIRE(c);
+    CHECK(c->coverage == Coverage::covers);
+    CHECK(result_of(*c, "setting") == "not-stated");
+    CHECK(result_of(*c, "population") == "not-stated");
+    CHECK(result_of(*c, "time_point") == "not-stated");
+    CHECK(result_of(*c, "horizon") == "not-stated");
+  }
+  CHECK(r.recommendation == Recommendation::reuse);
+}
+
+TEST_CASE("a score narrower than the proposal on a stated criterion partly covers") {
+  struct Case {
+    const char* name;
+    std::string proposal;
+    const char* id;
+    const char* criterion;
+    const char* result;
+  };
+  const std::vector<Case> cases = {
+      // CURB-65 was developed for community-acquired pneumonia, a kind of pneumonia.
+      {"narrower condition (by concept)", replace(kPneumonia, "condition: community-acquired pneumonia", "condition: pneumonia"),
+       "curb-65", "population", "partly"},
+      // The proposal names a general population; PESI is for acute pulmonary embolism only.
+      {"general population stated", "proposal: x\noutcome: 30-day mortality\npopulation: {condition: adult inpatients}\n",
+       "pesi", "population", "partly"},
+      {"part of the ages", replace(kPneumonia, "age_min: 18", "age_min: 10"), "curb-65", "population", "partly"},
+      {"some settings", replace(kPneumonia, "[emergency-department]", "[emergency-department, intensive-care]"),
+       "curb-65", "setting", "some"},
+  };
+  for (const Case& c : cases) {
+    INFO(c.name);
+    ReuseReport r = reuse(c.proposal);
+    const Candidate* cand = find(r, c.id);
+    REQUIRE(cand);
+    CHECK(result_of(*cand, c.criterion) == c.result);
+    CHECK(cand->coverage == Coverage::partly);
+  }
+}
+
+TEST_CASE("partial cover gives adapt, a criterion not met only relates; horizons compare by ratio") {
+  std::string text = replace(replace(replace(kPneumonia, "[emergency-department]", "[emergency-department, intensive-care]"),
                                      "presentation", "daily"), "P30D", "P90D");
   ReuseReport r = reuse(text);
   const Candidate* curb = find(r, "curb-65");
   REQUIRE(curb);
   CHECK(curb->coverage == Coverage::partly);
-  CHECK(result_of(*curb, "setting") == "none");
+  CHECK(result_of(*curb, "setting") == "some");
   CHECK(result_of(*curb, "time_point") == "differs");
   CHECK(result_of(*curb, "horizon") == "differs");
   CHECK(r.recommendation == Recommendation::adapt);
+  // A setting where the score is not used at all is not met: the score only relates.
+  ReuseReport icu = reuse(replace(kPneumonia, "[emergency-department]", "[intensive-care]"));
+  CHECK(result_of(*find(icu, "curb-65"), "setting") == "none");
+  CHECK(find(icu, "curb-65")->coverage == Coverage::related);
   CHECK(result_of(*find(reuse(replace(kPneumonia, "P30D", "P28D")), "curb-65"), "horizon") == "close");
   CHECK(result_of(*find(reuse(replace(kPneumonia, "P30D", "P365D")), "curb-65"), "horizon") == "far");
   CHECK(result_of(*find(reuse(replace(kPneumonia, "P30D", "in-hospital")), "curb-65"), "horizon") == "differs");
 }
 
-TEST_CASE("a local registry's in-house model that covers is flagged first") {
+TEST_CASE("ranking: coverage, then evidence, then relevance; never the number of inputs") {
+  // Adult ward deterioration: NEWS2 (checked against its publication) ranks above MEWS and NEWS (2012).
+  ReuseReport ward = reuse(R"(proposal: ward
+outcome: clinical deterioration
+horizon: PT24H
+settings: [ward]
+population: {age_min: 18}
+)");
+  REQUIRE(find(ward, "news2"));
+  REQUIRE(find(ward, "mews"));
+  CHECK(find(ward, "news2")->coverage == Coverage::covers);
+  CHECK(rank_of(ward, "news2") < rank_of(ward, "mews"));
+  CHECK(rank_of(ward, "news2") < rank_of(ward, "news-2012"));
+
+  // Two otherwise identical entries: the one with evidence wins whatever its number of inputs.
+  Entry few = *testing::shipped().catalog.find("curb-65");
+  few.id = "a-few-inputs";
+  few.provenance = "from-memory";
+  few.performance.clear();
+  Entry many = few;
+  many.id = "b-many-inputs";
+  many.inputs.insert(many.inputs.end(), few.inputs.begin(), few.inputs.end());
+  many.provenance = "checked";
+  std::vector<Entry> both = {few, many};
+  ReuseReport r = reuse(kPneumonia, both);
+  REQUIRE(r.candidates.size() == 2);
+  CHECK(r.candidates[0].entry->id == "b-many-inputs");
+  // Equal evidence: a validation c-statistic first, then the higher one.
+  both[1].provenance = "from-memory";
+  both[0].performance = {{"c-statistic", 0.70, "validation"}};
+  both[1].performance = {{"c-statistic", 0.80, "derivation"}};
+  CHECK(reuse(kPneumonia, both).candidates[0].entry->id == "a-few-inputs");
+  both[1].performance = {{"c-statistic", 0.80, "validation"}};
+  CHECK(reuse(kPneumonia, both).candidates[0].entry->id == "b-many-inputs");
+  // No evidence either way: relevance, then id.
+  both[0].performance.clear();
+  both[1].performance.clear();
+  CHECK(reuse(kPneumonia, both).candidates[0].entry->id == "a-few-inputs");
+}
+
+TEST_CASE("evidence summarises provenance and published performance") {
+  struct Case {
+    const char* name;
+    std::string provenance;
+    std::vector<Performance> performance;
+    const char* brief;
+    const char* text;
+  };
+  const std::vector<Case> cases = {
+      {"nothing", "from-memory", {}, "from memory",
+       "from memory (not checked against its publication); no validation figure in the catalogue"},
+      {"checked, derivation only", "checked", {{"c-statistic", 0.82, "derivation"}}, "checked, c 0.82",
+       "checked against its publication; no validation figure in the catalogue; c-statistic 0.82 (derivation)"},
+      {"validation preferred to a higher derivation figure", "checked",
+       {{"c-statistic", 0.90, "derivation"}, {"c-statistic", 0.77, "validation"}, {"c-statistic", 0.79, "validation"}},
+       "checked, validated, c 0.79", "checked against its publication; validated; c-statistic 0.79 (validation)"},
+  };
+  for (const Case& c : cases) {
+    INFO(c.name);
+    Entry e;
+    e.provenance = c.provenance;
+    e.performance = c.performance;
+    Evidence ev = evidence_of(e);
+    CHECK(ev.brief() == c.brief);
+    CHECK(ev.str() == c.text);
+  }
+}
+
+TEST_CASE("an in-house model that covers is listed first") {
   std::vector<Entry> entries = testing::shipped().catalog.entries;
   Entry mine = *testing::shipped().catalog.find("curb-65");
   mine.id = "lvmc-cap-mortality";
   mine.name = "LVMC pneumonia mortality model";
   mine.kind = "local";
   mine.publication.reset();
+  mine.provenance = "from-memory";
   mine.owner = "Analytics";
   mine.status = "live";
   mine.go_live = "2024-01-08";
@@ -186,6 +346,23 @@ TEST_CASE("a local registry's in-house model that covers is flagged first") {
   CHECK(r.candidates[0].entry->reference() == "in-house model (Analytics; live since 2024-01-08)");
 }
 
+TEST_CASE("retrieval signals bring in candidates whose outcome does not relate") {
+  // qSOFA predicts in-hospital death, not sepsis; full-text retrieval finds it for a sepsis question.
+  const char* sepsis = "proposal: s\noutcome: sepsis\nsettings: [emergency-department]\n";
+  CHECK_FALSE(find(reuse(sepsis), "qsofa"));
+  RetrievalSignals signals;
+  signals.text["qsofa"] = 0.9;
+  ReuseReport r = match_proposal(proposal_of(sepsis), resolver(), vocabulary(), testing::shipped().catalog.entries, signals);
+  const Candidate* q = find(r, "qsofa");
+  REQUIRE(q);
+  CHECK(q->coverage == Coverage::related);
+  CHECK(result_of(*q, "outcome") == "differs");
+  signals.text["qsofa"] = kTextCandidate - 0.01;
+  CHECK_FALSE(find(match_proposal(proposal_of(sepsis), resolver(), vocabulary(), testing::shipped().catalog.entries,
+                                  signals),
+                   "qsofa"));
+}
+
 TEST_CASE("ranking is deterministic") {
   ReuseReport a = reuse(kPneumonia);
   ReuseReport b = reuse(kPneumonia);
@@ -193,25 +370,32 @@ TEST_CASE("ranking is deterministic") {
   for (size_t i = 0; i < a.candidates.size(); ++i) {
     CHECK(a.candidates[i].entry->id == b.candidates[i].entry->id);
     CHECK(a.candidates[i].rank == static_cast<int>(i) + 1);
+    CHECK(a.candidates[i].relevance >= 0);
+    CHECK(a.candidates[i].relevance <= 1);
     if (i > 0) CHECK(static_cast<int>(a.candidates[i - 1].coverage) <= static_cast<int>(a.candidates[i].coverage));
   }
 }
 
-TEST_CASE("the reports carry the keys and the cautions") {
+TEST_CASE("the reports carry the keys, provenance, evidence and the cautions") {
   Proposal p = proposal_of(kReadmission);
-  ReuseReport r = reuse(kReadmission);
+  ReuseReport r = reuse(kReadmission, testing::with_demo_registry().catalog.entries);
   std::string json = reuse_json(p, r);
   for (const char* key : {"\"proposal\": \"readmit-30d\"", "\"concepts\": [\"readmission-30d\"]", "\"searched\": ",
+                          "\"condition\": \"adult medical and surgical inpatients\"", "\"condition_concepts\": []",
                           "\"recommendation\": \"reuse\"", "\"candidates\": [", "\"id\": \"lace-index\"",
-                          "\"kind\": \"points\"", "\"coverage\": \"covers\"", "\"rank\": 1", "\"criteria\": [",
+                          "\"kind\": \"points\"", "\"coverage\": \"covers\"", "\"rank\": 1", "\"relation\": \"same\"",
+                          "\"relevance\": 0.", "\"provenance\": \"from-memory\"",
+                          "\"evidence\": {\"checked\": false, \"validated\": ", "\"c_statistic\": ", "\"criteria\": [",
                           "\"name\": \"outcome\"", "\"result\": \"same\"", "\"detail\": ", "\"reference\": ",
                           "\"cautions\": [", "validated on local data", "gives no clinical advice"}) {
     INFO(key);
     CHECK(json.find(key) != std::string::npos);
   }
-  std::string text = reuse_text(p, r, testing::shipped().catalog.vocabulary);
+  std::string text = reuse_text(p, r, vocabulary());
   CHECK(text.find("recommendation: reuse") != std::string::npos);
   CHECK(text.find("already built in-house: LVMC 30-day readmission model") != std::string::npos);
+  CHECK(text.find("  evidence    from memory (not checked against its publication)") != std::string::npos);
+  CHECK(text.find("  relevance   0.") != std::string::npos);
   for (const std::string& c : catalogue_cautions()) CHECK(text.find(c) != std::string::npos);
 }
 

@@ -79,6 +79,64 @@ TEST_CASE("concepts relate through the broader DAG") {
   CHECK(v.ancestors("icu-mortality") == std::vector<std::string>{"in-hospital-mortality", "mortality"});
 }
 
+TEST_CASE("the shipped vocabulary's clinical relations") {
+  // Each row is a correction made after clinical review of the vocabulary
+  // (common practice: how the terms are used in the scores' publications).
+  const Vocabulary& v = testing::shipped().catalog.vocabulary;
+  struct Case {
+    const char* a;
+    const char* b;
+    ConceptRelation relation;
+    const char* why;
+  };
+  const std::vector<Case> cases = {
+      {"major-bleeding", "subarachnoid-haemorrhage", ConceptRelation::sibling,
+       "a spontaneous subarachnoid haemorrhage is bleeding, not the major bleeding of anticoagulation scores"},
+      {"major-bleeding", "intracranial-bleeding-on-antithrombotics", ConceptRelation::narrower,
+       "intracranial bleeding on anticoagulants is major bleeding"},
+      {"upper-gi-bleeding", "upper-gi-bleeding-intervention", ConceptRelation::unrelated,
+       "needing intervention while bleeding is not a kind of upper GI bleeding"},
+      {"coronary-heart-disease", "coronary-revascularisation", ConceptRelation::sibling,
+       "revascularisation is a treatment, not a kind of coronary heart disease"},
+      {"major-adverse-cardiac-events", "coronary-revascularisation", ConceptRelation::narrower,
+       "urgent revascularisation is a MACE component"},
+      {"clinical-deterioration", "unplanned-icu-admission", ConceptRelation::narrower,
+       "an unplanned ICU admission is clinical deterioration"},
+      {"clinical-deterioration", "planned-icu-admission", ConceptRelation::unrelated, "a planned one is not"},
+      {"icu-admission", "planned-icu-admission", ConceptRelation::narrower, "both are ICU admissions"},
+      {"stroke", "thromboembolism", ConceptRelation::overlapping, "both include ischaemic stroke"},
+      {"stroke-or-systemic-embolism", "ischaemic-stroke", ConceptRelation::narrower, "a component"},
+      {"pneumonia", "community-acquired-pneumonia", ConceptRelation::narrower, "a kind of pneumonia"},
+      {"community-acquired-pneumonia", "hospital-acquired-pneumonia", ConceptRelation::sibling, "two kinds"},
+      {"renal-failure", "acute-kidney-injury", ConceptRelation::narrower, "acute renal failure"},
+      {"renal-failure", "kidney-failure", ConceptRelation::narrower, "end-stage renal failure"},
+      {"acute-kidney-injury", "kidney-failure", ConceptRelation::sibling, "acute is not end-stage"},
+      {"shock", "intensive-respiratory-or-vasopressor-support", ConceptRelation::overlapping,
+       "both include needing vasopressors"},
+      {"emergency-admission", "hospital-admission-from-ed", ConceptRelation::narrower,
+       "an admission from the ED is an emergency admission"},
+  };
+  for (const Case& c : cases) {
+    INFO(c.a << " / " << c.b << ": " << c.why);
+    CHECK(to_string(v.relate(c.a, c.b)) == std::string(to_string(c.relation)));
+  }
+  CHECK(v.shared_narrower("stroke", "thromboembolism") == "ischaemic-stroke");
+  CHECK(v.shared_narrower("stroke", "readmission-30d").empty());
+  // Synonyms that named another concept are gone.
+  for (const auto& [id, phrase] : std::vector<std::pair<std::string, std::string>>{
+           {"ischaemic-stroke", "stroke or systemic embolism"},
+           {"pneumonia-mortality", "pneumonia severity"},
+           {"pneumonia", "community-acquired pneumonia"},
+           {"pneumonia", "hospital-acquired pneumonia"},
+           {"kidney-failure", "renal failure"},
+           {"icu-admission", "unplanned icu admission"},
+           {"shock", "vasopressor requirement"}}) {
+    INFO(id << ": " << phrase);
+    const std::vector<std::string>& synonyms = v.outcome(id)->synonyms;
+    CHECK(std::find(synonyms.begin(), synonyms.end(), phrase) == synonyms.end());
+  }
+}
+
 TEST_CASE("a small valid vocabulary loads into plain structs") {
   Vocabulary v;
   Diagnostics diags;

@@ -32,7 +32,8 @@ const std::vector<std::string> kEntryKeys = {"id",        "name",    "kind",    
 const std::vector<std::string> kLocalOnlyKeys = {"owner", "go_live", "status"};
 const std::vector<std::string> kOutcomeKeys = {"concept", "detail"};
 const std::vector<std::string> kPopulationKeys = {"age_min", "age_max", "condition"};
-const std::vector<std::string> kInputKeys = {"element", "label", "points", "when", "recency"};
+const std::vector<std::string> kInputKeys = {"element", "label", "points", "per", "when", "recency"};
+const std::vector<std::string> kPerKeys = {"amount", "unit"};
 const std::vector<std::string> kRangeKeys = {"min", "max"};
 const std::vector<std::string> kPerformanceKeys = {"metric", "value", "cohort"};
 const std::vector<std::string> kPublicationKeys = {"authors", "year", "title", "journal", "doi"};
@@ -210,10 +211,36 @@ class EntryParser {
       if (entry_.kind == "points" && !item.find("points")) {
         r_.error(item.pos, "missing required key 'points' in " + what + " (a points score gives each item its points)");
       }
+      load_per(item, what, &in);
       in.when = r_.text(item, "when", what).value_or("");
       in.recency = r_.duration(item, "recency", what);
       entry_.inputs.push_back(std::move(in));
     }
+  }
+
+  // `per: {amount: 5, unit: years}`: the item's points for every `amount` of `unit`.
+  void load_per(const YamlNode& item, const std::string& what, EntryInput* in) {
+    const YamlNode* per = item.find("per");
+    if (!per) return;
+    std::string per_what = "'per' of " + what;
+    if (!per->is_map()) {
+      r_.error(FieldReader::where(item, per), per_what + " must be a map such as {amount: 1, unit: year}, found " +
+                                                  per->describe());
+      return;
+    }
+    r_.check_keys(*per, kPerKeys, per_what);
+    bool both = r_.require(*per, "amount", per_what, per->pos) & r_.require(*per, "unit", per_what, per->pos);
+    std::optional<double> amount = r_.number(*per, "amount", per_what);
+    std::string unit = r_.text(*per, "unit", per_what).value_or("");
+    double per_amount = amount.value_or(0);
+    if (amount && per_amount <= 0) {
+      r_.error(per->find("amount")->pos, "'amount' of " + per_what + " must be greater than 0");
+    }
+    if (!item.find("points")) {
+      r_.error(FieldReader::key_pos(item, per), "'per' in " + what + " needs 'points' (the points for every amount)");
+    }
+    if (both && per_amount > 0 && !unit.empty()) in->per = PointsPer{per_amount, unit};
+    has_per_ = has_per_ || in->per.has_value();
   }
 
   void load_score_range(const YamlNode& root) {
@@ -226,16 +253,23 @@ class EntryParser {
       return;
     }
     r_.check_keys(*range, kRangeKeys, what);
-    bool both = r_.require(*range, "min", what, range->pos) & r_.require(*range, "max", what, range->pos);
+    bool has_min = r_.require(*range, "min", what, range->pos);
+    // A score with points per unit may have no fixed maximum.
+    bool has_max = range->find("max") != nullptr;
+    if (!has_max && !has_per_) {
+      r_.error(range->pos, "missing required key 'max' in " + what +
+                               " (only a score with points per unit, 'per', may leave its maximum open)");
+      return;
+    }
     auto lo = r_.integer(*range, "min", what, -100000, 100000);
-    auto hi = r_.integer(*range, "max", what, -100000, 100000);
-    if (!both || !lo || !hi) return;
-    if (*lo > *hi) {
+    auto hi = has_max ? r_.integer(*range, "max", what, -100000, 100000) : std::nullopt;
+    if (!has_min || !lo || (has_max && !hi)) return;
+    if (hi && *lo > *hi) {
       r_.error(range->find("min")->pos, "score_range of " + what_ + " is inverted: min " + std::to_string(*lo) +
                                             " is greater than max " + std::to_string(*hi));
       return;
     }
-    entry_.score_range = std::make_pair(*lo, *hi);
+    entry_.score_range = ScoreRange{*lo, hi};
   }
 
   void load_performance(const YamlNode& root) {
@@ -325,6 +359,7 @@ class EntryParser {
   Entry entry_;
   std::string what_ = "the entry";
   std::vector<Reference> refs_;
+  bool has_per_ = false;   // some input has points per unit
 };
 
 void check_references(const std::vector<Reference>& refs, const std::string& path, const Vocabulary& vocabulary,
@@ -402,6 +437,18 @@ bool list_yaml(const fs::path& dir, std::vector<SourceFile>* out, std::error_cod
 }
 
 }  // namespace
+
+std::string PointsPer::str() const {
+  char amount_text[32];
+  std::snprintf(amount_text, sizeof amount_text, "%g", amount);
+  if (amount == 1) return "per " + unit;
+  std::string plural = unit.ends_with("s") ? unit : unit + "s";
+  return std::string("per ") + amount_text + " " + plural;
+}
+
+std::string ScoreRange::str() const {
+  return std::to_string(min) + (max ? " to " + std::to_string(*max) : " upwards");
+}
 
 std::string Horizon::str() const { return in_hospital ? "in-hospital" : format_duration(duration); }
 

@@ -27,12 +27,31 @@ struct Horizon {
   std::string str() const;    // "in-hospital" or the ISO form, e.g. "P30D"
 };
 
+/// Points that grow with a measurement: `points` for every `amount` of
+/// `unit` (PESI: 1 point per 1 year of age; ASTRAL: 1 per 5 years).
+struct PointsPer {
+  double amount = 1;    // > 0
+  std::string unit;     // e.g. "year", "NIHSS point"
+  /// "per year", "per 5 years".
+  std::string str() const;
+};
+
 struct EntryInput {
   std::string element;               // an element id of the vocabulary
   std::string label;
-  std::optional<long> points;        // points scores
+  std::optional<long> points;        // points scores: fixed points, or points per unit when `per` is set
+  std::optional<PointsPer> per;      // nullopt: `points` is a fixed number
   std::string when;                  // free text, e.g. ">= 75 years"; empty: always
   std::optional<Duration> recency;   // nullopt: not stated
+};
+
+/// The range of a points score's total.
+struct ScoreRange {
+  long min = 0;
+  std::optional<long> max;           // nullopt: no fixed maximum (a `per` item grows with its measurement)
+  bool operator==(const ScoreRange&) const = default;
+  /// "0 to 9", "0 upwards".
+  std::string str() const;
 };
 
 struct Performance {
@@ -64,7 +83,7 @@ struct Entry {
   std::vector<std::string> settings;
   std::string time_point;
   std::vector<EntryInput> inputs;
-  std::optional<std::pair<long, long>> score_range;   // {min, max}
+  std::optional<ScoreRange> score_range;              // nullopt: not stated
   std::vector<Performance> performance;
   std::optional<Publication> publication;             // always set for published scores
   std::string provenance;            // from-memory | checked

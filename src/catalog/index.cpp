@@ -8,6 +8,9 @@
 #include <cerrno>
 #include <cstring>
 
+#include "catalog/fts_coverage.h"
+#include "catalog/outcome_resolver.h"
+
 #include <algorithm>
 #include <cctype>
 #include <cstdlib>
@@ -22,7 +25,7 @@ namespace fs = std::filesystem;
 namespace {
 
 // Bumped whenever the schema below changes, so old index files are rebuilt.
-const char kSchemaVersion[] = "2";
+const char kSchemaVersion[] = "3";
 
 const char kSchema[] = R"(
 CREATE TABLE meta(key TEXT PRIMARY KEY, value TEXT NOT NULL);
@@ -33,7 +36,7 @@ CREATE TABLE entries(
   score_min INTEGER, score_max INTEGER, provenance TEXT, owner TEXT, go_live TEXT, status TEXT,
   pub_authors TEXT, pub_year INTEGER, pub_title TEXT, pub_journal TEXT, pub_doi TEXT);
 CREATE TABLE inputs(entry INTEGER NOT NULL, seq INTEGER NOT NULL, element TEXT, label TEXT,
-  points INTEGER, when_text TEXT, recency TEXT, PRIMARY KEY(entry, seq));
+  points INTEGER, when_text TEXT, recency TEXT, per_amount REAL, per_unit TEXT, PRIMARY KEY(entry, seq));
 CREATE TABLE performance(entry INTEGER NOT NULL, seq INTEGER NOT NULL, metric TEXT, value REAL,
   cohort TEXT, PRIMARY KEY(entry, seq));
 CREATE TABLE entry_settings(setting TEXT NOT NULL, entry INTEGER NOT NULL, PRIMARY KEY(setting, entry));
@@ -152,13 +155,24 @@ bool exec(sqlite3* db, const char* sql, std::string* error) {
   return false;
 }
 
-// The FTS5 document of an entry, column by column (see kSchema).
-std::vector<std::string> document(const Entry& e, const Vocabulary& vocabulary) {
-  std::string outcome = e.outcome + " " + e.outcome_detail;
-  if (const Term* t = vocabulary.outcome(e.outcome)) outcome += " " + t->label + " " + join(t->synonyms, " ");
+// The FTS5 document of an entry, column by column (see kSchema): the
+// population column adds the label and synonyms of every concept the
+// condition names ("non-valvular AF" also reads "atrial fibrillation"), the
+// summary column the publication's title.
+std::vector<std::string> document(const Entry& e, const Vocabulary& vocabulary, const OutcomeResolver& resolver) {
+  auto term_text = [&](const std::string& id) {
+    const Term* t = vocabulary.outcome(id);
+    return t ? " " + t->label + " " + join(t->synonyms, " ") : std::string();
+  };
+  std::string outcome = e.outcome + " " + e.outcome_detail + term_text(e.outcome);
+  std::string population = e.condition;
+  if (!e.condition.empty()) {
+    for (const std::string& c : resolver.resolve(e.condition).concepts) population += term_text(c);
+  }
+  std::string summary = e.summary + (e.publication ? " " + e.publication->title : "");
   std::string inputs;
   for (const EntryInput& in : e.inputs) inputs += in.label + " ";
-  return {e.id + " " + e.name, outcome, e.condition, e.summary, inputs};
+  return {e.id + " " + e.name, outcome, population, summary, inputs};
 }
 
 // The insert statements of a build, prepared once.
@@ -167,18 +181,18 @@ struct Inserter {
       : db(db),
         entry(db, "INSERT INTO entries VALUES(?1,?2,?3,?4,?5,?6,?7,?8,?9,?10,?11,?12,?13,?14,?15,?16,?17,?18,?19,?20,"
                   "?21,?22,?23,?24,?25,?26)"),
-        input(db, "INSERT INTO inputs VALUES(?1,?2,?3,?4,?5,?6,?7)"),
+        input(db, "INSERT INTO inputs VALUES(?1,?2,?3,?4,?5,?6,?7,?8,?9)"),
         perf(db, "INSERT INTO performance VALUES(?1,?2,?3,?4,?5)"),
         setting(db, "INSERT OR IGNORE INTO entry_settings VALUES(?1,?2)"),
         text(db, "INSERT INTO entry_text(rowid, name, outcome, population, summary, inputs) VALUES(?1,?2,?3,?4,?5,?6)") {}
   bool ok() const { return entry.ok() && input.ok() && perf.ok() && setting.ok() && text.ok(); }
-  bool insert(const Entry& e, long long rowid, const Vocabulary& vocabulary);
+  bool insert(const Entry& e, long long rowid, const Vocabulary& vocabulary, const OutcomeResolver& resolver);
 
   sqlite3* db;
   Statement entry, input, perf, setting, text;
 };
 
-bool Inserter::insert(const Entry& e, long long rowid, const Vocabulary& vocabulary) {
+bool Inserter::insert(const Entry& e, long long rowid, const Vocabulary& vocabulary, const OutcomeResolver& resolver) {
   Statement& st = entry;
   st.bind(1, rowid);
   st.bind(2, e.id);
@@ -195,8 +209,8 @@ bool Inserter::insert(const Entry& e, long long rowid, const Vocabulary& vocabul
   st.bind(13, e.condition);
   st.bind(14, e.time_point);
   st.bind(15, join(e.settings, " "));
-  st.bind(16, e.score_range ? std::optional<long>(e.score_range->first) : std::nullopt);
-  st.bind(17, e.score_range ? std::optional<long>(e.score_range->second) : std::nullopt);
+  st.bind(16, e.score_range ? std::optional<long>(e.score_range->min) : std::nullopt);
+  st.bind(17, e.score_range ? e.score_range->max : std::nullopt);
   st.bind(18, e.provenance);
   st.bind(19, e.owner);
   st.bind(20, e.go_live);
@@ -220,6 +234,10 @@ bool Inserter::insert(const Entry& e, long long rowid, const Vocabulary& vocabul
     in.bind(5, x.points);
     in.bind(6, x.when);
     in.bind_text_or_null(7, x.recency ? format_duration(*x.recency) : "");
+    if (x.per) {
+      in.bind(8, x.per->amount);
+      in.bind(9, x.per->unit);
+    }
     if (!in.run()) return false;
   }
   for (size_t i = 0; i < e.performance.size(); ++i) {
@@ -235,7 +253,7 @@ bool Inserter::insert(const Entry& e, long long rowid, const Vocabulary& vocabul
     setting.bind(2, rowid);
     if (!setting.run()) return false;
   }
-  std::vector<std::string> doc = document(e, vocabulary);
+  std::vector<std::string> doc = document(e, vocabulary, resolver);
   text.bind(1, rowid);
   for (size_t i = 0; i < doc.size(); ++i) text.bind(static_cast<int>(i) + 2, doc[i]);
   if (!text.run()) return false;
@@ -300,31 +318,53 @@ std::optional<Duration> duration_or_null(const std::string& text) {
   return parse_duration(text).value;
 }
 
-// An FTS5 query matching any word of `text`: each word quoted, joined by OR.
-// At most kMaxQueryWords distinct words of at most kMaxWordBytes bytes are
-// used: a pasted page of text must not make a query whose cost grows with
-// its square (a 100 KB query once took a minute).
+// An FTS5 query matching any word of `text` or any of `phrases` (a phrase's
+// words in order): each quoted, joined by OR, each distinct once; within
+// `column` when one is named. At most kMaxQueryWords distinct words of `text`
+// and kMaxQueryPhrases phrases are used, each word cut to kMaxWordBytes bytes
+// (whole characters): a pasted page of text must not make a query whose cost
+// grows with its square (a 100 KB query once took a minute).
 constexpr size_t kMaxQueryWords = 32;
+constexpr size_t kMaxQueryPhrases = 256;
 constexpr size_t kMaxWordBytes = 64;
-std::string fts_query(const std::string& text) {
-  std::vector<std::string> words;
-  std::string word;
-  auto flush = [&] {
-    if (word.size() > kMaxWordBytes) word.resize(kMaxWordBytes);
-    while (!word.empty() && (static_cast<unsigned char>(word.back()) & 0xC0) == 0x80) word.pop_back();  // whole characters
-    if (!word.empty() && (static_cast<unsigned char>(word.back()) & 0xC0) == 0xC0) word.pop_back();
-    std::string quoted = "\"" + word + "\"";
-    if (!word.empty() && words.size() < kMaxQueryWords && std::find(words.begin(), words.end(), quoted) == words.end()) {
-      words.push_back(quoted);
+std::string fts_query(const std::string& text, const std::vector<std::string>& phrases, const std::string& column) {
+  std::vector<std::string> terms;
+  // The quoted term of `words` (its words, each cut to whole characters), or "" when it has none.
+  auto term_of = [](const std::string& words) {
+    std::string term, word;
+    auto flush = [&] {
+      if (word.size() > kMaxWordBytes) word.resize(kMaxWordBytes);
+      while (!word.empty() && (static_cast<unsigned char>(word.back()) & 0xC0) == 0x80) word.pop_back();
+      if (!word.empty() && (static_cast<unsigned char>(word.back()) & 0xC0) == 0xC0) word.pop_back();
+      if (!word.empty()) term += (term.empty() ? "" : " ") + word;
+      word.clear();
+    };
+    for (char c : words) {
+      if (std::isalnum(static_cast<unsigned char>(c)) || static_cast<unsigned char>(c) >= 0x80) word += c;
+      else flush();
     }
-    word.clear();
+    flush();
+    return term.empty() ? term : "\"" + term + "\"";
   };
-  for (char c : text) {
-    if (std::isalnum(static_cast<unsigned char>(c)) || static_cast<unsigned char>(c) >= 0x80) word += c;
-    else flush();
+  auto add = [&terms](const std::string& term, size_t* budget) {
+    if (term.empty() || *budget == 0 || std::find(terms.begin(), terms.end(), term) != terms.end()) return;
+    terms.push_back(term);
+    --*budget;
+  };
+  size_t words_left = kMaxQueryWords, phrases_left = kMaxQueryPhrases;
+  std::string word;
+  for (char c : text + " ") {
+    if (std::isalnum(static_cast<unsigned char>(c)) || static_cast<unsigned char>(c) >= 0x80) {
+      word += c;
+    } else if (!word.empty()) {
+      add(term_of(word), &words_left);
+      word.clear();
+    }
   }
-  flush();
-  return join(words, " OR ");
+  for (const std::string& p : phrases) add(term_of(p), &phrases_left);
+  if (terms.empty()) return "";
+  std::string any = join(terms, " OR ");
+  return column.empty() ? any : column + " : (" + any + ")";
 }
 
 }  // namespace
@@ -453,9 +493,10 @@ std::string build_index(const Catalog& catalog, const std::string& hash, const s
   bool ok = exec(db, "PRAGMA journal_mode=OFF; PRAGMA synchronous=OFF; BEGIN;", &error) && exec(db, kSchema, &error);
   if (ok) {
     Inserter inserter(db);
+    OutcomeResolver resolver(catalog.vocabulary);
     ok = inserter.ok();
     for (size_t i = 0; ok && i < catalog.entries.size(); ++i) {
-      ok = inserter.insert(catalog.entries[i], static_cast<long long>(i) + 1, catalog.vocabulary);
+      ok = inserter.insert(catalog.entries[i], static_cast<long long>(i) + 1, catalog.vocabulary, resolver);
     }
     if (!ok) error = sqlite3_errmsg(db);
   }
@@ -526,6 +567,11 @@ IndexOpen CatalogIndex::open(const RegistryFiles& listed, const std::string& dir
     if (!fs::exists(path, ec)) return false;
     if (sqlite3_open_v2(path.c_str(), &index->db_, SQLITE_OPEN_READONLY, nullptr) != SQLITE_OK) return false;
     sqlite3_busy_timeout(index->db_, kBusyTimeoutMs);
+    std::string fts_error;
+    if (!register_fts_coverage(index->db_, &fts_error)) {
+      failure = "cannot open the catalogue index " + path + ": " + fts_error;
+      return false;
+    }
     Statement st(index->db_, "SELECT (SELECT value FROM meta WHERE key='hash'), (SELECT value FROM meta WHERE key='schema'),"
                              " (SELECT count(*) FROM entries)");
     if (!st.step()) {
@@ -593,17 +639,23 @@ CatalogIndex::~CatalogIndex() { sqlite3_close(db_); }
 
 std::vector<SearchHit> CatalogIndex::search(const SearchQuery& q, std::string* error) const {
   std::vector<SearchHit> out;
-  std::string match = fts_query(q.text);
+  static const std::vector<std::string> kColumns = {"name", "outcome", "population", "summary", "inputs"};
+  if (!q.column.empty() && std::find(kColumns.begin(), kColumns.end(), q.column) == kColumns.end()) {
+    *error = "no text column '" + q.column + "' in the catalogue index";
+    return out;
+  }
+  std::string match = fts_query(q.text, q.phrases, q.column);
   if (match.empty()) return out;
   std::string sql = std::string("SELECT e.id, e.name, e.kind, e.outcome, e.settings, ") + kRank +
-                    " AS rank FROM entry_text JOIN entries e ON e.rowid = entry_text.rowid WHERE entry_text MATCH ?1";
+                    " AS rank, readyby_coverage(entry_text) AS coverage"
+                    " FROM entry_text JOIN entries e ON e.rowid = entry_text.rowid WHERE entry_text MATCH ?1";
   if (!q.setting.empty()) sql += " AND e.rowid IN (SELECT entry FROM entry_settings WHERE setting = ?2)";
   if (!q.outcomes.empty()) {
     sql += " AND e.outcome IN (";
     for (size_t i = 0; i < q.outcomes.size(); ++i) sql += (i ? ",?" : "?") + std::to_string(i + 3);
     sql += ")";
   }
-  sql += " ORDER BY rank, e.id LIMIT " + std::to_string(q.limit);
+  sql += " ORDER BY coverage DESC, rank, e.id LIMIT " + std::to_string(q.limit);
   Statement st(db_, sql);
   if (!st.ok()) {
     *error = st.error();
@@ -614,7 +666,7 @@ std::vector<SearchHit> CatalogIndex::search(const SearchQuery& q, std::string* e
   for (size_t i = 0; i < q.outcomes.size(); ++i) st.bind(static_cast<int>(i) + 3, q.outcomes[i]);
   while (st.step()) {
     // bm25() is lower for better matches; report its negation so higher is better.
-    out.push_back({st.text(0), st.text(1), st.text(2), st.text(3), split_words(st.text(4)), -st.real(5)});
+    out.push_back({st.text(0), st.text(1), st.text(2), st.text(3), split_words(st.text(4)), -st.real(5), st.real(6)});
   }
   if (!st.ok()) {
     *error = st.error();
@@ -632,7 +684,7 @@ std::vector<Entry> CatalogIndex::query_entries(const std::string& where, const s
                     " ORDER BY id");
   // Inputs and performance of the selected entries only.
   std::string selected = where.empty() ? "" : " WHERE entry IN (SELECT rowid FROM entries " + where + ")";
-  Statement in(db_, "SELECT entry, element, label, points, when_text, recency FROM inputs" + selected +
+  Statement in(db_, "SELECT entry, element, label, points, when_text, recency, per_amount, per_unit FROM inputs" + selected +
                         " ORDER BY entry, seq");
   Statement perf(db_, "SELECT entry, metric, value, cohort FROM performance" + selected + " ORDER BY entry, seq");
   if (!st.ok() || !in.ok() || !perf.ok()) {
@@ -664,7 +716,7 @@ std::vector<Entry> CatalogIndex::query_entries(const std::string& where, const s
     e.condition = st.text(12);
     e.time_point = st.text(13);
     e.settings = split_words(st.text(14));
-    if (st.integer(15) && st.integer(16)) e.score_range = std::make_pair(*st.integer(15), *st.integer(16));
+    if (st.integer(15)) e.score_range = ScoreRange{*st.integer(15), st.integer(16)};
     e.provenance = st.text(17);
     e.owner = st.text(18);
     e.go_live = st.text(19);
@@ -678,7 +730,9 @@ std::vector<Entry> CatalogIndex::query_entries(const std::string& where, const s
   while (in.step()) {
     auto it = by_rowid.find(in.integer(0).value_or(0));
     if (it == by_rowid.end()) continue;
-    out[it->second].inputs.push_back({in.text(1), in.text(2), in.integer(3), in.text(4), duration_or_null(in.text(5))});
+    std::optional<PointsPer> per;
+    if (in.integer(6)) per = PointsPer{in.real(6), in.text(7)};
+    out[it->second].inputs.push_back({in.text(1), in.text(2), in.integer(3), per, in.text(4), duration_or_null(in.text(5))});
   }
   while (perf.step()) {
     auto it = by_rowid.find(perf.integer(0).value_or(0));
@@ -729,6 +783,13 @@ std::vector<Entry> CatalogIndex::entries_with_outcomes(const std::vector<std::st
   std::string where = "WHERE outcome IN (";
   for (size_t i = 0; i < outcomes.size(); ++i) where += (i ? ", ?" : "?") + std::to_string(i + 1);
   return query_entries(where + ")", outcomes, error);
+}
+
+std::vector<Entry> CatalogIndex::entries_with_ids(const std::vector<std::string>& ids, std::string* error) const {
+  if (ids.empty()) return {};
+  std::string where = "WHERE id IN (";
+  for (size_t i = 0; i < ids.size(); ++i) where += (i ? ", ?" : "?") + std::to_string(i + 1);
+  return query_entries(where + ")", ids, error);
 }
 
 std::optional<Entry> CatalogIndex::entry(const std::string& id, std::string* error) const {

@@ -35,10 +35,12 @@ namespace readyby {
 std::string index_dir(std::string* why = nullptr);
 
 struct SearchQuery {
-  std::string text;                   // words; an entry matches if it has any of them (BM25 ranks)
+  std::string text;                   // words; an entry matches if it has any of them
   std::string setting;                // a setting id; empty: any
   std::vector<std::string> outcomes;  // concept ids; empty: any
   size_t limit = 20;
+  std::vector<std::string> phrases;   // more terms, each matched as a whole phrase ("atrial fibrillation")
+  std::string column;                 // search only this text column (see CatalogIndex); empty: all
 };
 
 struct SearchHit {
@@ -48,6 +50,7 @@ struct SearchHit {
   std::string outcome;
   std::vector<std::string> settings;
   double score = 0;                   // BM25 relevance, higher is better
+  double coverage = 0;                // share of the query the entry contains, 0-1 (catalog/fts_coverage.h)
 };
 
 class CatalogIndex;
@@ -74,8 +77,12 @@ class CatalogIndex {
   bool rebuilt() const { return rebuilt_; }
   size_t size() const { return size_; }
 
-  /// Entries matching `q`, best first (BM25; ties by id). Empty when the
-  /// query has no words. On an SQLite error, `error` is set and the result is empty.
+  /// Entries matching `q`, best first: highest coverage, then BM25, then id.
+  /// The text columns are name (id and name), outcome (concept, detail, the
+  /// concept's label and synonyms), population (condition, and the labels and
+  /// synonyms of the concepts it names), summary (with the publication's
+  /// title) and inputs (item labels). Empty when the query has no words. On
+  /// an SQLite error, `error` is set and the result is empty.
   std::vector<SearchHit> search(const SearchQuery& q, std::string* error) const;
   /// The vocabulary the index was built with (the YAML's, without re-parsing
   /// it). False, with `error` set, on an SQLite error.
@@ -85,6 +92,8 @@ class CatalogIndex {
   /// The entries whose outcome concept is one of `outcomes`, sorted by id
   /// (how `reuse` avoids loading the whole catalogue).
   std::vector<Entry> entries_with_outcomes(const std::vector<std::string>& outcomes, std::string* error) const;
+  /// The entries with these ids, sorted by id (unknown ids are skipped).
+  std::vector<Entry> entries_with_ids(const std::vector<std::string>& ids, std::string* error) const;
   /// One entry; nullopt when no entry has this id.
   std::optional<Entry> entry(const std::string& id, std::string* error) const;
 

@@ -55,6 +55,23 @@ std::string normalise(const std::string& text) {
 
 }  // namespace
 
+bool is_linking_word(const std::string& word) { return kLinkingWords.count(word) > 0; }
+
+std::vector<std::string> meaningful_words(const std::string& text) {
+  std::vector<std::string> out;
+  std::string word;
+  for (char c : text + " ") {
+    if (word_char(c)) {
+      word += lower_char(c);
+      continue;
+    }
+    bool number = std::all_of(word.begin(), word.end(), [](unsigned char d) { return std::isdigit(d); });
+    if (!word.empty() && !number && !is_linking_word(word)) out.push_back(word);
+    word.clear();
+  }
+  return out;
+}
+
 std::string phrase_pattern(const std::string& phrase) {
   std::string out;
   size_t i = 0;

@@ -48,6 +48,14 @@ class OutcomeResolver {
   std::unique_ptr<Matcher> matcher_;
 };
 
+/// Whether `word` (lower case) links or quantifies rather than names an
+/// outcome ("within", "risk", "days"): never reported as unresolved.
+bool is_linking_word(const std::string& word);
+
+/// The words of `text` that carry meaning, lower case, in order: no linking
+/// words, no bare numbers.
+std::vector<std::string> meaningful_words(const std::string& text);
+
 /// The RE2 pattern for one vocabulary phrase, as described above, matched
 /// against lower-cased text with punctuation turned into spaces and a space
 /// added at each end; group 1 is the phrase.

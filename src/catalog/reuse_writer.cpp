@@ -1,5 +1,7 @@
 #include "catalog/reuse_writer.h"
 
+#include <cstdio>
+
 #include "util/text.h"
 
 namespace readyby {
@@ -15,6 +17,20 @@ std::string concept_list(const std::vector<std::string>& ids, const Vocabulary& 
   return out;
 }
 
+std::string evidence_json(const Evidence& e) {
+  char c[32] = "null";
+  if (e.c_statistic) std::snprintf(c, sizeof c, "%.3g", *e.c_statistic);
+  return std::string("{\"checked\": ") + (e.checked ? "true" : "false") + ", \"validated\": " +
+         (e.validated ? "true" : "false") + ", \"c_statistic\": " + c +
+         ", \"c_cohort\": " + (e.c_cohort.empty() ? "null" : json_quote(e.c_cohort)) + "}";
+}
+
+std::string relevance_text(double r) {
+  char out[16];
+  std::snprintf(out, sizeof out, "%.2f", r);
+  return out;
+}
+
 }  // namespace
 
 std::string reuse_json(const Proposal& proposal, const ReuseReport& report) {
@@ -22,6 +38,8 @@ std::string reuse_json(const Proposal& proposal, const ReuseReport& report) {
                     ", \"outcome\": " + json_quote(proposal.outcome) +
                     ", \"concepts\": " + json_list(report.resolution.concepts) +
                     ", \"unresolved\": " + json_list(report.resolution.unresolved) +
+                    ", \"condition\": " + json_quote(proposal.condition) +
+                    ", \"condition_concepts\": " + json_list(report.condition.concepts) +
                     ", \"searched\": " + std::to_string(report.searched) +
                     ", \"recommendation\": " + json_quote(to_string(report.recommendation)) +
                     ", \"summary\": " + json_quote(report.summary) + ", \"in_house\": " + json_list(report.in_house) +
@@ -31,7 +49,9 @@ std::string reuse_json(const Proposal& proposal, const ReuseReport& report) {
     out += std::string(i ? ",\n  " : "\n  ") + "{\"id\": " + json_quote(c.entry->id) +
            ", \"name\": " + json_quote(c.entry->name) + ", \"kind\": " + json_quote(c.entry->kind) +
            ", \"coverage\": " + json_quote(to_string(c.coverage)) + ", \"rank\": " + std::to_string(c.rank) +
-           ", \"in_house\": " + (c.in_house ? "true" : "false") + ", \"criteria\": [";
+           ", \"in_house\": " + (c.in_house ? "true" : "false") + ", \"relation\": " + json_quote(to_string(c.relation)) +
+           ", \"relevance\": " + relevance_text(c.relevance) + ", \"provenance\": " + json_quote(c.entry->provenance) +
+           ", \"evidence\": " + evidence_json(c.evidence) + ", \"criteria\": [";
     for (size_t k = 0; k < c.criteria.size(); ++k) {
       const Criterion& cr = c.criteria[k];
       out += std::string(k ? ", " : "") + "{\"name\": " + json_quote(cr.name) + ", \"result\": " + json_quote(cr.result) +
@@ -54,6 +74,12 @@ std::string reuse_text(const Proposal& proposal, const ReuseReport& report, cons
     for (const std::string& w : report.resolution.unresolved) words += (words.empty() ? "'" : ", '") + w + "'";
     out += "  unresolved words: " + words + " (not in any outcome label or synonym)\n";
   }
+  if (!proposal.condition.empty()) {
+    out += "  condition: \"" + proposal.condition + "\" -> " +
+           (report.condition.concepts.empty() ? std::string("no concept (compared by its words)")
+                                              : concept_list(report.condition.concepts, vocabulary)) +
+           "\n";
+  }
   out += "  searched " + std::to_string(report.searched) + " catalogue entries\n\n";
   out += "recommendation: " + report.summary + "\n";
   for (const std::string& id : report.in_house) {
@@ -71,6 +97,8 @@ std::string reuse_text(const Proposal& proposal, const ReuseReport& report, cons
       std::snprintf(head, sizeof head, "  %-11s %-9s ", cr.name.c_str(), cr.result.c_str());
       out += head + cr.detail + "\n";
     }
+    out += "  evidence    " + c.evidence.str() + "\n";
+    out += "  relevance   " + relevance_text(c.relevance) + "\n";
     out += "  reference   " + c.entry->reference() + "\n";
   }
   if (related > related_shown) {

@@ -3,9 +3,12 @@
 // for tools. They format a ReuseReport; they decide nothing.
 //
 // JSON keys (stable; more may be added): proposal, title, outcome, concepts,
-// unresolved, searched, recommendation (reuse | adapt | build), summary,
-// in_house, candidates[] {id, name, kind, coverage (covers | partly |
-// related), rank, in_house, criteria[] {name, result, detail}, reference},
+// unresolved, condition, condition_concepts, searched, recommendation (reuse
+// | adapt | build), summary, in_house, candidates[] {id, name, kind, coverage
+// (covers | partly | related), rank, in_house, relation (same | narrower |
+// broader | overlapping | sibling | unrelated), relevance (0-1), provenance
+// (checked | from-memory), evidence {checked, validated, c_statistic (null
+// when none), c_cohort}, criteria[] {name, result, detail}, reference},
 // cautions[].
 
 #include <string>

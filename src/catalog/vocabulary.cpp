@@ -257,6 +257,10 @@ void Vocabulary::reindex() {
     }
     ancestors_[t.id] = std::vector<std::string>(seen.begin(), seen.end());
   }
+  descendants_.clear();
+  for (const auto& [id, up] : ancestors_) {
+    for (const std::string& a : up) descendants_[a].push_back(id);   // ancestors_ is ordered: each list stays sorted
+  }
 }
 
 const std::vector<std::string>& Vocabulary::ancestors(const std::string& id) const {
@@ -265,12 +269,35 @@ const std::vector<std::string>& Vocabulary::ancestors(const std::string& id) con
   return it == ancestors_.end() ? kNone : it->second;
 }
 
-std::vector<std::string> Vocabulary::descendants(const std::string& id) const {
-  std::vector<std::string> out;
-  for (const auto& [concept_id, up] : ancestors_) {
-    if (std::binary_search(up.begin(), up.end(), id)) out.push_back(concept_id);
+const std::vector<std::string>& Vocabulary::descendants(const std::string& id) const {
+  static const std::vector<std::string> kNone;
+  auto it = descendants_.find(id);
+  return it == descendants_.end() ? kNone : it->second;
+}
+
+std::string Vocabulary::shared_narrower(const std::string& a, const std::string& b) const {
+  const std::vector<std::string>& down_a = descendants(a);
+  const std::vector<std::string>& down_b = descendants(b);
+  auto i = down_a.begin();
+  auto j = down_b.begin();
+  while (i != down_a.end() && j != down_b.end()) {
+    if (*i == *j) return *i;
+    if (*i < *j) ++i;
+    else ++j;
   }
-  return out;  // ancestors_ is ordered by id, so `out` is sorted
+  return "";
+}
+
+const char* to_string(ConceptRelation r) {
+  switch (r) {
+    case ConceptRelation::same: return "same";
+    case ConceptRelation::narrower: return "narrower";
+    case ConceptRelation::broader: return "broader";
+    case ConceptRelation::overlapping: return "overlapping";
+    case ConceptRelation::sibling: return "sibling";
+    case ConceptRelation::unrelated: return "unrelated";
+  }
+  return "?";
 }
 
 ConceptRelation Vocabulary::relate(const std::string& a, const std::string& b) const {
@@ -279,6 +306,7 @@ ConceptRelation Vocabulary::relate(const std::string& a, const std::string& b) c
   const std::vector<std::string>& up_b = ancestors(b);
   if (std::binary_search(up_b.begin(), up_b.end(), a)) return ConceptRelation::narrower;
   if (std::binary_search(up_a.begin(), up_a.end(), b)) return ConceptRelation::broader;
+  if (!shared_narrower(a, b).empty()) return ConceptRelation::overlapping;
   for (const std::string& x : up_a) {
     if (std::binary_search(up_b.begin(), up_b.end(), x)) return ConceptRelation::sibling;
   }

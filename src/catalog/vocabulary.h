@@ -39,14 +39,18 @@ struct Element {
   SourcePos pos;
 };
 
-/// How two outcome concepts relate through the `broader` DAG.
+/// How two outcome concepts relate through the `broader` DAG, closest first.
 enum class ConceptRelation {
-  same,       // one concept
-  narrower,   // the second is narrower (a kind of the first)
-  broader,    // the second is broader
-  sibling,    // neither, but they share a broader concept
+  same,         // one concept
+  narrower,     // the second is narrower (a kind or a component of the first)
+  broader,      // the second is broader
+  overlapping,  // neither, but some concept is narrower than both (stroke and
+                // thromboembolism: both include ischaemic stroke)
+  sibling,      // none of the above, but they share a broader concept
   unrelated,
 };
+/// "same" | "narrower" | "broader" | "overlapping" | "sibling" | "unrelated".
+const char* to_string(ConceptRelation r);
 
 class Vocabulary {
  public:
@@ -70,8 +74,11 @@ class Vocabulary {
 
   /// Every concept strictly broader than `id` (transitively), sorted; empty for unknown ids.
   const std::vector<std::string>& ancestors(const std::string& id) const;
-  /// Every concept strictly narrower than `id` (transitively), sorted.
-  std::vector<std::string> descendants(const std::string& id) const;
+  /// Every concept strictly narrower than `id` (transitively), sorted; empty for unknown ids.
+  const std::vector<std::string>& descendants(const std::string& id) const;
+  /// A concept narrower than both `a` and `b` (the first in id order), or ""
+  /// when there is none.
+  std::string shared_narrower(const std::string& a, const std::string& b) const;
   /// How concept `b` relates to concept `a` (`narrower`: b is a kind of a).
   ConceptRelation relate(const std::string& a, const std::string& b) const;
 
@@ -82,7 +89,7 @@ class Vocabulary {
     return it == index.end() ? nullptr : &list[it->second];
   }
   std::map<std::string, size_t> outcome_index_, setting_index_, time_point_index_, element_index_;
-  std::map<std::string, std::vector<std::string>> ancestors_;
+  std::map<std::string, std::vector<std::string>> ancestors_, descendants_;
 };
 
 /// One input file: its path (as shown in diagnostics) and its text.

@@ -17,6 +17,11 @@ namespace {
 
 const Command& self() { return command_named("catalog"); }
 
+// An entry is a close match for a search when its text holds at least this
+// share of the query (IDF-weighted coverage, catalog/fts_coverage.h). Below
+// it, search says that no entry is a close match (README, "catalog search").
+constexpr double kCloseMatch = 0.5;
+
 void print_cautions(const char* indent) {
   std::printf("\ncautions:\n");
   for (const std::string& c : catalogue_cautions()) std::printf("%s- %s\n", indent, c.c_str());
@@ -31,12 +36,12 @@ int catalog_validate(std::vector<std::string> args) {
                                                 : "catalog validate takes only --registry DIR options",
                        self().usage);
   }
-  std::string shipped = shipped_registry();
-  if (shipped.empty()) {
-    std::cerr << "readyby: cannot find the catalogue: set READYBY_REGISTRY to the registries/ folder\n";
+  std::string not_found;
+  registries = registry_layers(registries, &not_found);
+  if (registries.empty()) {
+    std::cerr << "readyby: " << not_found << "\n";
     return kExitBadInput;
   }
-  registries.insert(registries.begin(), shipped);
   Diagnostics diags;
   RegistryFiles files;
   Catalog catalog;
@@ -99,7 +104,10 @@ int catalog_search(std::vector<std::string> args) {
   CatalogSession session;
   if (int rc = open_catalog(registries, true, &session); rc != kExitOk) return rc;
   const Vocabulary& v = session.vocabulary;
-  SearchQuery q{o.text, o.setting, {}, o.limit};
+  SearchQuery q;
+  q.text = o.text;
+  q.setting = o.setting;
+  q.limit = o.limit;
   if (!o.setting.empty() && !v.setting(o.setting)) {
     return usage_error("unknown setting '" + o.setting + "'" + did_you_mean(o.setting, Vocabulary::ids(v.settings)),
                        self().usage);
@@ -127,18 +135,21 @@ int catalog_search(std::vector<std::string> args) {
     std::cerr << "readyby: catalogue search failed: " << error << "\n";
     return kExitBadInput;
   }
+  bool close = !hits.empty() && hits.front().coverage >= kCloseMatch;
   if (o.format == "json") {
     std::string out = "{\"query\": " + json_quote(o.text) + ", \"setting\": " + json_quote(o.setting) +
                       ", \"outcomes\": " + json_list(q.outcomes) + ", \"searched\": " +
-                      std::to_string(session.index->size()) + ", \"results\": [";
+                      std::to_string(session.index->size()) + ", \"close_match\": " + (close ? "true" : "false") +
+                      ", \"results\": [";
     for (size_t i = 0; i < hits.size(); ++i) {
       const SearchHit& h = hits[i];
-      char score[32];
+      char score[32], relevance[32];
       std::snprintf(score, sizeof score, "%.4f", h.score);
+      std::snprintf(relevance, sizeof relevance, "%.2f", h.coverage);
       out += std::string(i ? ",\n  " : "\n  ") + "{\"rank\": " + std::to_string(i + 1) + ", \"id\": " + json_quote(h.id) +
              ", \"name\": " + json_quote(h.name) + ", \"kind\": " + json_quote(h.kind) +
              ", \"outcome\": " + json_quote(h.outcome) + ", \"settings\": " + json_list(h.settings) +
-             ", \"score\": " + score + "}";
+             ", \"relevance\": " + relevance + ", \"score\": " + score + "}";
     }
     out += "],\n \"cautions\": " + json_list(catalogue_cautions()) + "}\n";
     std::fputs(out.c_str(), stdout);
@@ -146,10 +157,17 @@ int catalog_search(std::vector<std::string> args) {
   }
   std::printf("%zu match%s for \"%s\" among %zu entries\n", hits.size(), hits.size() == 1 ? "" : "es", o.text.c_str(),
               session.index->size());
+  if (hits.empty()) {
+    std::printf("no entry is a close match: no entry contains these words\n");
+  } else if (!close) {
+    std::printf("no entry is a close match: the best holds %.0f%% of the query (a close match holds %.0f%%); the "
+                "nearest are listed\n",
+                100 * hits.front().coverage, 100 * kCloseMatch);
+  }
   for (size_t i = 0; i < hits.size(); ++i) {
     const SearchHit& h = hits[i];
     const Term* t = v.outcome(h.outcome);
-    std::printf("%3zu. %-32s %s [%s] -> %s\n", i + 1, h.id.c_str(), h.name.c_str(), h.kind.c_str(),
+    std::printf("%3zu. %-32s %4.2f  %s [%s] -> %s\n", i + 1, h.id.c_str(), h.coverage, h.name.c_str(), h.kind.c_str(),
                 t ? t->label.c_str() : h.outcome.c_str());
   }
   print_cautions("  ");
@@ -175,11 +193,12 @@ void print_entry(const Entry& e, const Vocabulary& v) {
   for (const EntryInput& in : e.inputs) {
     const Element* el = v.element(in.element);
     std::string points = in.points ? (*in.points >= 0 ? "+" : "") + std::to_string(*in.points) : "";
+    if (in.per) points += " " + in.per->str();
     std::printf("    %-4s %-40s %s%s%s\n", points.c_str(), in.element.c_str(), in.label.c_str(),
                 in.recency ? (" (within " + format_duration(*in.recency) + ")").c_str() : "",
                 el && !el->structured ? " [usually not a structured field]" : "");
   }
-  if (e.score_range) std::printf("  score range: %ld to %ld\n", e.score_range->first, e.score_range->second);
+  if (e.score_range) std::printf("  score range: %s\n", e.score_range->str().c_str());
   for (const Performance& p : e.performance) {
     std::printf("  performance: %s %.3g (%s)\n", p.metric.c_str(), p.value, p.cohort.c_str());
   }

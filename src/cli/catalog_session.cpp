@@ -13,16 +13,55 @@ namespace readyby {
 
 namespace fs = std::filesystem;
 
-std::string shipped_registry() {
-  if (const char* env = std::getenv("READYBY_REGISTRY"); env && *env) return env;
+std::vector<std::string> shipped_registry_candidates() {
+  if (const char* env = std::getenv("READYBY_REGISTRY"); env && *env) return {env};
+  std::vector<std::string> out;
   std::error_code ec;
-  if (fs::is_directory("registries", ec)) return "registries";
   fs::path exe = fs::read_symlink("/proc/self/exe", ec);
   if (!ec) {
-    fs::path beside = exe.parent_path().parent_path() / "registries";
-    if (fs::is_directory(beside, ec)) return beside.string();
+    fs::path prefix = exe.parent_path().parent_path();
+    out.push_back((prefix / "share" / "readyby" / "registries").string());
+    out.push_back((prefix / "registries").string());
   }
+#ifdef READYBY_INSTALLED_REGISTRY
+  out.push_back(READYBY_INSTALLED_REGISTRY);
+#endif
+  return out;
+}
+
+std::string shipped_registry(std::string* problem) {
+  std::vector<std::string> candidates = shipped_registry_candidates();
+  std::error_code ec;
+  for (const std::string& dir : candidates) {
+    if (fs::is_directory(fs::path(dir) / "vocabulary", ec)) return dir;
+  }
+  std::string looked;
+  for (const std::string& dir : candidates) looked += (looked.empty() ? "" : ", ") + dir;
+  bool from_env = std::getenv("READYBY_REGISTRY") && *std::getenv("READYBY_REGISTRY");
+  *problem = std::string("cannot find the shipped catalogue") +
+             (from_env ? ": READYBY_REGISTRY names '" + looked + "', which has no vocabulary/ folder"
+                       : " (looked in: " + looked + ")") +
+             ". Set READYBY_REGISTRY to the catalogue folder (the one holding vocabulary/ and scores/), or install "
+             "readyby with 'cmake --install' so that the catalogue lies in PREFIX/share/readyby/registries";
   return "";
+}
+
+std::vector<std::string> registry_layers(const std::vector<std::string>& extra, std::string* problem) {
+  std::string shipped = shipped_registry(problem);
+  if (shipped.empty()) return {};
+  std::vector<std::string> layers = {shipped};
+  if (const char* env = std::getenv("READYBY_REGISTRIES"); env && *env) {
+    std::string list = env;
+    size_t start = 0;
+    while (start <= list.size()) {
+      size_t colon = list.find(':', start);
+      if (colon == std::string::npos) colon = list.size();
+      if (colon > start) layers.push_back(list.substr(start, colon - start));
+      start = colon + 1;
+    }
+  }
+  layers.insert(layers.end(), extra.begin(), extra.end());
+  return layers;
 }
 
 std::string take_registries(std::vector<std::string>* args, std::vector<std::string>* registries) {
@@ -42,13 +81,12 @@ std::string take_registries(std::vector<std::string>* args, std::vector<std::str
 }
 
 int open_catalog(const std::vector<std::string>& extra, bool with_index, CatalogSession* session) {
-  std::string shipped = shipped_registry();
-  if (shipped.empty()) {
-    std::cerr << "readyby: cannot find the catalogue: set READYBY_REGISTRY to the registries/ folder\n";
+  std::string problem;
+  std::vector<std::string> registries = registry_layers(extra, &problem);
+  if (registries.empty()) {
+    std::cerr << "readyby: " << problem << "\n";
     return kExitBadInput;
   }
-  std::vector<std::string> registries = {shipped};
-  registries.insert(registries.end(), extra.begin(), extra.end());
   Diagnostics diags;
   // With an index, only list the files: the index reads them when they changed.
   if (!read_registries(registries, &session->files, &diags, !with_index)) {

@@ -67,16 +67,21 @@ const char kCatalogUsage[] =
     "       readyby catalog search TEXT [--setting S] [--outcome C] [--limit N] [--format text|json] [--registry DIR]...\n"
     "       readyby catalog show ID [--registry DIR]...\n"
     "  validate checks every vocabulary and entry file and reports every error as PATH:LINE:COL.\n"
-    "  search ranks entries by relevance to TEXT (BM25); --setting takes a setting id, --outcome a\n"
-    "  concept id or text (narrower concepts included). show prints one entry.\n"
-    "  --registry layers a local registry folder over the shipped one (repeatable).\n"
+    "  search ranks entries by how much of TEXT they hold, then BM25, and says when no entry is a\n"
+    "  close match; --setting takes a setting id, --outcome a concept id or text (narrower concepts\n"
+    "  included). show prints one entry.\n"
+    "  The shipped catalogue: $READYBY_REGISTRY, else PREFIX/share/readyby/registries of an installed\n"
+    "  binary. --registry (repeatable) and $READYBY_REGISTRIES (':'-separated) layer an\n"
+    "  organisation's registry folders over it.\n"
     "  Exit 0 on success, 2 on invalid input.\n";
 const char kReuseUsage[] =
     "usage: readyby reuse PROPOSAL [--registry DIR]... [--format text|json]\n"
-    "  Has an established score, or an in-house model, already covered this proposal? Matches the\n"
-    "  proposal's outcome, settings, population, time point and horizon against every catalogue\n"
-    "  entry and recommends reuse, adapt or build, criterion by criterion.\n"
-    "  --registry layers a local registry folder over the shipped one (repeatable).\n"
+    "  Has an established score, or an in-house model, already covered this proposal? Finds\n"
+    "  candidates by outcome concept, condition and full text, judges each on outcome, settings,\n"
+    "  population, time point and horizon, ranks them by coverage, evidence and relevance, and\n"
+    "  recommends reuse, adapt or build (docs/reuse.md).\n"
+    "  --registry (repeatable) and $READYBY_REGISTRIES (':'-separated) layer an organisation's\n"
+    "  registry folders over the shipped catalogue.\n"
     "  Exit 0 on success, 2 on invalid input.\n";
 const char kIntakeUsage[] =
     "usage: readyby intake PROPOSAL [--from YYYY-MM-DD] [--days N] [--registry DIR]... [--db FILE]\n"

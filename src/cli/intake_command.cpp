@@ -7,6 +7,7 @@
 
 #include "catalog/outcome_resolver.h"
 #include "catalog/proposal.h"
+#include "catalog/retrieval.h"
 #include "catalog/reuse.h"
 #include "cli/catalog_session.h"
 #include "cli/commands.h"
@@ -139,7 +140,8 @@ int cmd_intake(const std::vector<std::string>& args) {
   Diagnostics diags;
   std::optional<Proposal> proposal = load_proposal_file(o.proposal_path, session.vocabulary, &diags);
   if (!proposal) return report_errors(diags, o.proposal_path, "");
-  OutcomeResolution resolution = OutcomeResolver(session.vocabulary).resolve(proposal->outcome);
+  OutcomeResolver resolver(session.vocabulary);
+  OutcomeResolution resolution = resolver.resolve(proposal->outcome);
   int model = -1;
   std::string plan_errors;
   std::optional<PlanLoadResult> loaded =
@@ -156,12 +158,13 @@ int cmd_intake(const std::vector<std::string>& args) {
   }
 
   std::string error;
-  std::vector<Entry> entries = session.index->entries(&error);
+  Retrieved retrieved = retrieve_candidates(*session.index, *proposal, resolver, session.vocabulary, &error);
   if (!error.empty()) {
     std::cerr << "readyby: cannot read the catalogue index: " << error << "\n";
     return kExitBadInput;
   }
-  ReuseReport reuse = match_proposal(*proposal, resolution, session.vocabulary, entries);
+  ReuseReport reuse = match_proposal(*proposal, resolver, session.vocabulary, retrieved.entries, retrieved.signals,
+                                     session.index->size());
   IntakeReport report = screen_intake(*proposal, plan, model, *o.from, o.days, std::move(reuse), session.vocabulary);
   if (!o.db_path.empty()) {
     std::unique_ptr<HistoryStore> store = HistoryStore::open(o.db_path, HistoryStore::Mode::existing, &error);

@@ -4,6 +4,7 @@
 
 #include "catalog/outcome_resolver.h"
 #include "catalog/proposal.h"
+#include "catalog/retrieval.h"
 #include "catalog/reuse.h"
 #include "catalog/reuse_writer.h"
 #include "cli/catalog_session.h"
@@ -49,24 +50,14 @@ int cmd_reuse(const std::vector<std::string>& raw) {
     return kExitBadInput;
   }
   std::string error;
-  OutcomeResolution resolution = OutcomeResolver(session.vocabulary).resolve(proposal->outcome);
-  // Only entries whose outcome relates to the proposal's can be candidates:
-  // load just those from the index, and count the whole catalogue as searched.
-  std::vector<std::string> related;
-  for (const Term& term : session.vocabulary.outcomes) {
-    for (const std::string& c : resolution.concepts) {
-      if (session.vocabulary.relate(term.id, c) != ConceptRelation::unrelated) {
-        related.push_back(term.id);
-        break;
-      }
-    }
-  }
-  std::vector<Entry> entries = session.index->entries_with_outcomes(related, &error);
+  OutcomeResolver resolver(session.vocabulary);
+  Retrieved retrieved = retrieve_candidates(*session.index, *proposal, resolver, session.vocabulary, &error);
   if (!error.empty()) {
     std::cerr << "readyby: cannot read the catalogue index: " << error << "\n";
     return kExitBadInput;
   }
-  ReuseReport report = match_proposal(*proposal, resolution, session.vocabulary, entries, session.index->size());
+  ReuseReport report = match_proposal(*proposal, resolver, session.vocabulary, retrieved.entries, retrieved.signals,
+                                      session.index->size());
   std::string out = format == "json" ? reuse_json(*proposal, report) : reuse_text(*proposal, report, session.vocabulary);
   std::fputs(out.c_str(), stdout);
   return kExitOk;

@@ -93,9 +93,24 @@ std::string pattern_fix_text(const TimingPattern& p) {
   return out;
 }
 
+// "'unplanned return to theatre'": the outcome the vocabulary did not recognise.
+std::string unrecognised(const ReuseReport& reuse) { return "'" + reuse.outcome + "'"; }
+
 std::string outcome_fact(const ReuseReport& reuse) {
   return "searched " + std::to_string(reuse.searched) + " catalogue entries" +
-         (reuse.resolution.concepts.empty() ? "; the outcome matched no concept of the vocabulary" : "");
+         (reuse.resolution.concepts.empty() ? "; the vocabulary did not recognise the outcome " + unrecognised(reuse)
+                                            : "");
+}
+
+// The timing in one clause that never calls a degraded run "in time".
+std::string timing_clause(const TimingSummary& t) {
+  if (t.failed == 0 && t.degraded == 0) return "every run of '" + t.model + "' gets its data in time";
+  if (t.failed == 0) {
+    return "no run of '" + t.model + "' fails, but " + std::to_string(t.degraded) + " of " + runs_text(t.runs) +
+           " are degraded (optional " + (t.degraded_features.size() == 1 ? "feature " : "features ") +
+           quoted_list(t.degraded_features) + " not always fresh)";
+  }
+  return std::to_string(t.failed) + " of " + runs_text(t.runs) + " of '" + t.model + "' fail";
 }
 
 IntakeRecommendation reuse_row(const CandidateCheck& chosen, const TimingSummary& timing, const ReuseReport& reuse,
@@ -161,7 +176,8 @@ IntakeRecommendation fix_row(const TimingSummary& timing, const ReuseReport& reu
   }
   if (!any_cover) {
     r.reasons.push_back("no established score or in-house model covers the proposal (" + outcome_fact(reuse) +
-                        "); a new model is justified only once its data arrives on time");
+                        "); search the literature before building, and fix the data plan first: no model, new or "
+                        "reused, is useful until its data arrives on time");
   }
   return r;
 }
@@ -192,11 +208,16 @@ IntakeRecommendation gaps_row(const CandidateCheck& chosen, const TimingSummary&
 IntakeRecommendation build_row(const TimingSummary& timing, const ReuseReport& reuse) {
   IntakeRecommendation r;
   r.decision = Decision::build;
-  r.summary = "a new model is justified: no established score or in-house model covers the proposal, and every run of '" +
-              timing.model + "' gets its data in time";
+  std::string found = reuse.resolution.concepts.empty()
+                          ? "no catalogue entry matched, and the vocabulary did not recognise " + unrecognised(reuse) +
+                                " — search the literature before building"
+                          : "no established score or in-house model covers or partly covers the proposal — search "
+                            "the literature for a published score before building";
+  r.summary = found + "; " + timing_clause(timing);
   r.reasons.push_back("no catalogue entry covers or partly covers the proposal (" + outcome_fact(reuse) + ")");
   r.reasons.push_back(timing_fact(timing));
-  r.reasons.push_back("plan the new model's validation and governance review before building");
+  r.reasons.push_back("if the literature has nothing either, plan the new model's validation and governance review "
+                      "before building");
   return r;
 }
 

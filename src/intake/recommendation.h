@@ -22,8 +22,12 @@
 //                           before partly, then on-time / gaps / no, then
 //                           fewest gaps, then rank.
 //   4. build                nothing covers or partly covers and every run holds
-//                           (or only optional features miss): a new model is
-//                           justified.
+//                           (or only optional features miss). The summary says
+//                           exactly what was found — nothing in the catalogue,
+//                           and whether the vocabulary recognised the outcome —
+//                           and that the literature is searched before building;
+//                           its timing clause names degraded runs (it never
+//                           calls them "in time").
 
 #include <optional>
 #include <string>

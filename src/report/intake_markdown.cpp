@@ -51,11 +51,12 @@ void reuse_section(const IntakeReport& r, std::string* out) {
       ++related;
       continue;
     }
-    if (!header) *out += "\n| # | entry | kind | coverage | reference |\n|---:|---|---|---|---|\n";
+    if (!header) *out += "\n| # | entry | kind | coverage | evidence | reference |\n|---:|---|---|---|---|---|\n";
     header = true;
     *out += "| " + std::to_string(c.rank) + " | " + cell(c.entry->name) + " (`" + c.entry->id + "`) | " +
             (c.in_house ? "in-house" : c.entry->kind) + " | " + to_string(c.coverage) + " | " +
-            cell(c.entry->reference()) + " |\n";
+            (c.in_house ? std::string("not published") : c.evidence.brief()) + " | " + cell(c.entry->reference()) +
+            " |\n";
   }
   if (related) *out += "\n" + std::to_string(related) + " more entries are only related (`readyby reuse` lists them).\n";
 }

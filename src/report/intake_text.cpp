@@ -82,7 +82,8 @@ void reuse_section(const IntakeReport& r, std::string* out) {
   for (const Candidate* c : listed) {
     *out += "  " + pad("#" + std::to_string(c->rank), rank_w) + pad(c->entry->name, name_w) +
             pad("[" + c->entry->id + "]", id_w) + pad(to_string(c->coverage), coverage_w) +
-            (c->in_house ? "in-house" : c->entry->kind) + "\n";
+            pad(c->in_house ? "in-house" : c->entry->kind, 9) + (c->in_house ? "not published" : c->evidence.brief()) +
+            "\n";
   }
   if (related) *out += "  (" + std::to_string(related) + " related entries only; see 'readyby reuse')\n";
 }
