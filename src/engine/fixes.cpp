@@ -650,6 +650,7 @@ FixSearch FixFinder::find(const Pattern& p) const {
   // Starting the runs later: one run specification without a calendar (a
   // runs edit replaces the runs with one cron and no calendar).
   if (model.runs.size() == 1 && model.runs.front().calendar < 0) {
+    out.tried_later_start = true;
     const RunSpec& spec = model.runs.front();
     auto edit_of = [&](int64_t minutes) -> std::optional<Edit> {
       std::optional<std::string> text = shifted_cron(spec.at, minutes, false);

@@ -254,10 +254,15 @@ std::string describe_no_fix(const Plan& plan, const Pattern& p, const FixSearch&
            "so each needs its own change";
   }
   std::string out = "no single edit clears every run of this pattern";
-  if (!search.tried_nodes.empty()) {
+  std::vector<std::string> tried;
+  for (int n : search.tried_nodes) tried.push_back(quoted(plan, n));
+  if (search.tried_later_start) tried.push_back("the runs' start time");
+  if (!tried.empty()) {
     out += " (tried changing ";
-    for (size_t i = 0; i < search.tried_nodes.size(); ++i) out += (i ? ", " : "") + quoted(plan, search.tried_nodes[i]);
-    out += ", and starting the runs later)";
+    for (size_t i = 0; i < tried.size(); ++i) {
+      out += (i == 0 ? "" : i + 1 == tried.size() ? " and " : ", ") + tried[i];
+    }
+    out += ")";
   }
   return out;
 }
