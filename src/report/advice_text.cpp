@@ -171,10 +171,12 @@ std::string describe_cause(const Plan& plan, const Blame& b, const Zone* zone) {
         const std::string input = quoted(plan, b.steps[static_cast<size_t>(b.cause - 1)].node);
         if (s.start_by && *s.input_ready <= *s.start_by) {
           out += "; its input " + input + " was there at " + at(*s.input_ready);
-        } else {
+        } else if (s.start_by && *s.start_by > b.needs_data_through) {
           out += "; it has no start between " + at(b.needs_data_through) + " (the data the run needs) and " +
-                 (s.start_by ? at(*s.start_by) : std::string("the run")) + ", and its input " + input + " landed at " +
-                 at(*s.input_ready);
+                 at(*s.start_by) + ", and its input " + input + " landed at " + at(*s.input_ready);
+        } else {
+          out += "; its latest on-time start is not after " + at(b.needs_data_through) +
+                 " (the data the run needs), and its input " + input + " landed at " + at(*s.input_ready);
         }
       }
       return out;
