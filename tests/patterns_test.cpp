@@ -4,6 +4,7 @@
 #include <sstream>
 
 #include "engine/check.h"
+#include "engine/edit.h"
 #include "engine/fixes.h"
 #include "engine/patterns.h"
 #include "plan/plan_loader.h"
@@ -244,6 +245,24 @@ TEST_CASE("cross-zone: a span between two zones' daylight-saving changes is one 
   CHECK(edit_text(plan, search.fixes[1].edit) == "schedule partner_merge=10 12 * * *");
   CHECK(search.fixes[1].breaks_others());
   for (const Fix& f : search.fixes) CHECK(f.node != plan.find_node("partner_feed"));
+  // Each fix, written into a copy of the plan and checked afresh, makes every
+  // run of the span ok (the old advice, a feed landing earlier, left the
+  // merge starting at 09:00 and the runs failing).
+  for (const Fix& f : search.fixes) {
+    INFO(edit_text(plan, f.edit));
+    const Plan edited = apply_edits(plan, {f.edit});
+    Evaluation after = evaluate(edited, *parse_date("2026-03-01"), 35);
+    for (Instant at : span->runs) {
+      const Instant moved = f.kind == FixKind::start_later ? at + Seconds(f.seconds) : at;
+      bool found = false;
+      for (const RunResult& r : after.runs) {
+        if (r.at != moved) continue;
+        found = true;
+        CHECK(r.status == RunStatus::ok);
+      }
+      CHECK(found);
+    }
+  }
 }
 
 TEST_CASE("degraded runs get patterns, causes and fixes; the summary keeps optional slack apart") {

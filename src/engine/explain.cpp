@@ -1,5 +1,7 @@
 #include "engine/explain.h"
 
+#include <algorithm>
+
 namespace readyby {
 
 RunExplanation explain_run(const Plan& plan, int model, Instant at, int days) {
@@ -18,10 +20,21 @@ RunExplanation explain_run(const Plan& plan, int model, Instant at, int days) {
     if (next && *next == at) out.scheduled = true;
   }
 
+  // The window's runs must give the engine a range of w that holds this
+  // run's (a model with sparse runs may have none near it): widen until so.
   const LocalDays day = date::floor<date::days>(m.zone->to_local(at));
-  out.window_from = day - date::days(days / 2);
-  out.window_days = days;
-  Evaluation ev = evaluate_lazily(plan, out.window_from, days);
+  Evaluation ev;
+  for (int span = std::max(days, 1);; span *= 2) {
+    out.window_from = day - date::days(span / 2);
+    out.window_days = span;
+    ev = evaluate_lazily(plan, out.window_from, span);
+    bool covered = true;
+    for (int f : m.features) {
+      const int64_t w = to_unix(at) - plan.nodes[static_cast<size_t>(f)].max_age.seconds;
+      covered = covered && w >= ev.engine().range_from() && w <= ev.engine().range_to();
+    }
+    if (covered || span > 2 * 1462) break;
+  }
   PatternCollector collector(plan, ev);
   collect_runs(ev, &collector);
   out.run = ev.run_at(model, at);

@@ -33,7 +33,8 @@ struct RunExplanation {
 };
 
 /// Explains the run of `model` at `at`. The fixes' effects are checked over
-/// `days` local dates centred on the run's date (days >= 1).
+/// `days` local dates centred on the run's date (days >= 1), widened when the
+/// window's runs would not cover this run's data (a model with sparse runs).
 RunExplanation explain_run(const Plan& plan, int model, Instant at, int days);
 
 }  // namespace readyby

@@ -376,6 +376,48 @@ void candidates_from(const Plan& plan, const Blame& b, const std::vector<bool>* 
 
 }  // namespace
 
+// The steps upstream of (or equal to) every one of a pattern's features: the
+// only steps whose edit can clear them all. One walk up from each feature,
+// counting; the counts are undone on the next use.
+class CommonUpstream {
+ public:
+  explicit CommonUpstream(size_t nodes) : reach_(nodes, 0), seen_(nodes, 0) {}
+
+  void compute(const Lineage& lineage, const std::vector<PatternFeature>& features) {
+    for (int n : touched_) reach_[static_cast<size_t>(n)] = 0;
+    touched_.clear();
+    walks_ = 0;
+    for (const PatternFeature& f : features) {
+      ++stamp_;
+      ++walks_;
+      stack_.assign(1, f.feature);
+      seen_[static_cast<size_t>(f.feature)] = stamp_;
+      while (!stack_.empty()) {
+        const int n = stack_.back();
+        stack_.pop_back();
+        // Only a node every earlier walk reached can still be common.
+        uint32_t& r = reach_[static_cast<size_t>(n)];
+        if (r + 1 == walks_) {
+          r = walks_;
+          if (walks_ == 1) touched_.push_back(n);
+        }
+        for (int in : lineage.inputs(n)) {
+          if (seen_[static_cast<size_t>(in)] != stamp_) seen_[static_cast<size_t>(in)] = stamp_, stack_.push_back(in);
+        }
+      }
+    }
+  }
+  bool contains(int n) const { return walks_ > 0 && reach_[static_cast<size_t>(n)] == walks_; }
+  bool any() const {
+    return std::any_of(touched_.begin(), touched_.end(), [&](int n) { return contains(n); });
+  }
+
+ private:
+  std::vector<uint32_t> reach_, seen_;
+  uint32_t stamp_ = 0, walks_ = 0;
+  std::vector<int> touched_, stack_;  // touched_: upstream of the first feature
+};
+
 // ---------------------------------------------------------------------------
 
 struct FixFinder::State {
@@ -385,17 +427,70 @@ struct FixFinder::State {
   const Lineage& lineage;
   const std::vector<bool>* monitored;
   mutable EditTrial trial;
-  // Scratch for the walks up from a pattern's features.
-  std::vector<uint32_t> reach, seen;
-  uint32_t walk = 0;
+  CommonUpstream common;
 
   explicit State(const PatternCollector& c)
       : collector(c), plan(c.plan()), ev(c.evaluation()), lineage(*c.evaluation().lineage_), monitored(c.monitored()),
         trial(c.plan(), *c.evaluation().lineage_, c.evaluation().engine(), c.monitored()),
-        reach(c.plan().nodes.size(), 0), seen(c.plan().nodes.size(), 0) {}
+        common(c.plan().nodes.size()) {}
 
   bool is_monitored(int n) const {
     return monitored && static_cast<size_t>(n) < monitored->size() && (*monitored)[static_cast<size_t>(n)];
+  }
+
+  // The worst run's before and after, and the other runs of the window the
+  // edit changes (see the file comment).
+  void describe_effect(const Pattern& p, Fix* fix) {
+    const std::set<Instant> in_pattern(p.runs.begin(), p.runs.end());
+    trial.set(fix->edit, fix->kind == FixKind::start_later ? fix->seconds : 0);
+    fix->pattern_runs = p.runs.size();
+    if (fix->kind == FixKind::start_later) {
+      fix->before = p.worst_run;
+      fix->after = trial.moved(p.model, p.worst_run);
+    } else {
+      const Node& node = plan.nodes[static_cast<size_t>(fix->node)];
+      const Instant w = p.blame.needs_data_through;
+      std::optional<Instant> before = ev.ready(fix->node, w);
+      std::optional<Instant> after = trial.ready(fix->node, w);
+      const bool start = fix->kind == FixKind::move_start;
+      const Seconds run_time(start ? node.run_time.seconds : 0);
+      if (before) fix->before = *before - run_time;
+      if (after) fix->after = *after - run_time;
+      if (fix->kind == FixKind::move_start && fix->later && !p.blame.steps.empty()) {
+        // The start that read old data moves to after the input landed.
+        for (const BlameStep& s : p.blame.steps) {
+          if (s.node == fix->node && s.stale_start) fix->before = *s.stale_start;
+        }
+      }
+    }
+    // Landing earlier moves every E earlier or leaves it (E is monotone in
+    // each landing), so only runs that were not ok can change.
+    const bool only_improves = fix->edit.kind == EditKind::delay && fix->edit.seconds < 0;
+    for (size_t m = 0; m < plan.models.size(); ++m) {
+      const int mi = static_cast<int>(m);
+      if (!trial.affects(mi)) continue;
+      const std::vector<Instant>& all = collector.model_runs(mi);
+      if (only_improves) {
+        for (const PatternCollector::Record& r : collector.records(mi)) {
+          const Instant at = all[r.ordinal];
+          if (mi == p.model && in_pattern.count(at)) continue;
+          ++fix->runs_rechecked;
+          const RunStatus after = trial.run(mi, at).status;
+          if (after != r.status) fix->other_changes.push_back({mi, at, r.status, after});
+        }
+      } else {
+        for (Instant at : all) {
+          if (mi == p.model && in_pattern.count(at)) continue;
+          ++fix->runs_rechecked;
+          const RunStatus before = ev.run_at(mi, at).status;
+          const RunStatus after = trial.run(mi, at).status;
+          if (after != before) fix->other_changes.push_back({mi, at, before, after});
+        }
+      }
+    }
+    std::sort(fix->other_changes.begin(), fix->other_changes.end(), [](const RunChange& a, const RunChange& b) {
+      return a.at != b.at ? a.at < b.at : a.model < b.model;
+    });
   }
 };
 
@@ -451,59 +546,10 @@ FixSearch FixFinder::find(const Pattern& p) const {
     return true;
   };
 
-  // Which steps could clear every feature of the pattern: those upstream of
-  // (or equal to) all of them, counted by one walk up from each feature.
-  std::vector<uint32_t>& reach = st.reach;
-  std::vector<uint32_t>& seen = st.seen;
-  std::vector<int> stack;
-  uint32_t features_walked = 0;
-  for (const PatternFeature& f : p.features) {
-    ++st.walk;
-    ++features_walked;
-    stack.assign(1, f.feature);
-    seen[static_cast<size_t>(f.feature)] = st.walk;
-    while (!stack.empty()) {
-      const int n = stack.back();
-      stack.pop_back();
-      // Only nodes every earlier walk reached can still be common.
-      if (reach[static_cast<size_t>(n)] + 1 == features_walked) reach[static_cast<size_t>(n)] = features_walked;
-      for (int in : st.lineage.inputs(n)) {
-        if (seen[static_cast<size_t>(in)] != st.walk) seen[static_cast<size_t>(in)] = st.walk, stack.push_back(in);
-      }
-    }
-  }
-  auto common_step = [&](int n) { return features_walked > 0 && reach[static_cast<size_t>(n)] == features_walked; };
-  bool any_common = false;
-  // The common steps are upstream of the first feature: look there only.
-  if (!p.features.empty()) {
-    ++st.walk;
-    stack.assign(1, p.features.front().feature);
-    while (!stack.empty() && !any_common) {
-      const int n = stack.back();
-      stack.pop_back();
-      if (common_step(n)) any_common = true;
-      for (int in : st.lineage.inputs(n)) {
-        if (seen[static_cast<size_t>(in)] != st.walk) seen[static_cast<size_t>(in)] = st.walk, stack.push_back(in);
-      }
-    }
-  }
-  out.causes_apart = !any_common;
-  // Reset the counts for the next pattern: every node a walk counted is
-  // upstream of the first feature.
-  auto reset_counts = [&] {
-    ++st.walk;
-    if (p.features.empty()) return;
-    stack.assign(1, p.features.front().feature);
-    seen[static_cast<size_t>(p.features.front().feature)] = st.walk;
-    while (!stack.empty()) {
-      const int n = stack.back();
-      stack.pop_back();
-      reach[static_cast<size_t>(n)] = 0;
-      for (int in : st.lineage.inputs(n)) {
-        if (seen[static_cast<size_t>(in)] != st.walk) seen[static_cast<size_t>(in)] = st.walk, stack.push_back(in);
-      }
-    }
-  };
+  // Which steps could clear every feature of the pattern.
+  st.common.compute(st.lineage, p.features);
+  auto common_step = [&](int n) { return st.common.contains(n); };
+  out.causes_apart = !st.common.any();
 
   // Candidates: the worst run's blame, then other runs' blames if needed.
   std::vector<Candidate> candidates;
@@ -604,6 +650,7 @@ FixSearch FixFinder::find(const Pattern& p) const {
   // Starting the runs later: one run specification without a calendar (a
   // runs edit replaces the runs with one cron and no calendar).
   if (model.runs.size() == 1 && model.runs.front().calendar < 0) {
+    out.tried_later_start = true;
     const RunSpec& spec = model.runs.front();
     auto edit_of = [&](int64_t minutes) -> std::optional<Edit> {
       std::optional<std::string> text = shifted_cron(spec.at, minutes, false);
@@ -632,64 +679,11 @@ FixSearch FixFinder::find(const Pattern& p) const {
     }
   }
 
-  // Effects, before and after in the worst run.
-  std::set<Instant> in_pattern(p.runs.begin(), p.runs.end());
-  for (Fix& fix : found) {
-    trial.set(fix.edit, fix.kind == FixKind::start_later ? fix.seconds : 0);
-    fix.pattern_runs = p.runs.size();
-    if (fix.kind == FixKind::start_later) {
-      fix.before = p.worst_run;
-      fix.after = trial.moved(p.model, p.worst_run);
-    } else {
-      const Node& node = plan.nodes[static_cast<size_t>(fix.node)];
-      const Instant w = p.blame.needs_data_through;
-      std::optional<Instant> before = st.ev.ready(fix.node, w);
-      std::optional<Instant> after = trial.ready(fix.node, w);
-      const bool start = fix.kind == FixKind::move_start;
-      const Seconds run_time(start ? node.run_time.seconds : 0);
-      if (before) fix.before = *before - run_time;
-      if (after) fix.after = *after - run_time;
-      if (fix.kind == FixKind::move_start && fix.later && !p.blame.steps.empty()) {
-        // The start that read old data moves to after the input landed.
-        for (const BlameStep& s : p.blame.steps) {
-          if (s.node == fix.node && s.stale_start) fix.before = *s.stale_start;
-        }
-      }
-    }
-    // Landing earlier moves every E earlier or leaves it (E is monotone in
-    // each landing), so only runs that were not ok can change.
-    const bool only_improves = fix.edit.kind == EditKind::delay && fix.edit.seconds < 0;
-    for (size_t m = 0; m < plan.models.size(); ++m) {
-      const int mi = static_cast<int>(m);
-      if (!trial.affects(mi)) continue;
-      const std::vector<Instant>& all = st.collector.model_runs(mi);
-      if (only_improves) {
-        for (const PatternCollector::Record& r : st.collector.records(mi)) {
-          const Instant at = all[r.ordinal];
-          if (mi == p.model && in_pattern.count(at)) continue;
-          ++fix.runs_rechecked;
-          const RunStatus after = trial.run(mi, at).status;
-          if (after != r.status) fix.other_changes.push_back({mi, at, r.status, after});
-        }
-      } else {
-        for (Instant at : all) {
-          if (mi == p.model && in_pattern.count(at)) continue;
-          ++fix.runs_rechecked;
-          const RunStatus before = st.ev.run_at(mi, at).status;
-          const RunStatus after = trial.run(mi, at).status;
-          if (after != before) fix.other_changes.push_back({mi, at, before, after});
-        }
-      }
-    }
-    std::sort(fix.other_changes.begin(), fix.other_changes.end(), [](const RunChange& a, const RunChange& b) {
-      return a.at != b.at ? a.at < b.at : a.model < b.model;
-    });
-  }
+  for (Fix& fix : found) st.describe_effect(p, &fix);
   std::stable_sort(found.begin(), found.end(), [](const Fix& a, const Fix& b) {
     return !a.breaks_others() && b.breaks_others();
   });
   out.fixes = std::move(found);
-  reset_counts();
   return out;
 }
 

@@ -89,6 +89,9 @@ struct FixSearch {
   bool causes_apart = false;
   /// Steps whose edits were tried and could not clear every run of the pattern.
   std::vector<int> tried_nodes;
+  /// Whether starting the runs later was tried (the model has one run time
+  /// without a calendar).
+  bool tried_later_start = false;
   /// The pattern is never-fresh at its cause (nothing lands): no size of a
   /// timing edit of that step helps.
   bool never = false;

@@ -74,7 +74,9 @@ PatternCollector::PatternCollector(const Plan& plan, const Evaluation& ev, const
   folded_runs_.resize(models, {0, 0});
   records_.resize(models);
   model_zones_.resize(models);
-  const Lineage lineage = Lineage::of(plan);
+  std::optional<Lineage> own;
+  if (!ev.lineage_) own = Lineage::of(plan);
+  const Lineage& lineage = ev.lineage_ ? *ev.lineage_ : *own;
   for (size_t m = 0; m < models; ++m) {
     summaries_[m].model = static_cast<int>(m);
     const Model& model = plan.models[m];

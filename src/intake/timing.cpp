@@ -68,7 +68,13 @@ TimingPattern summarise_pattern(const Plan& plan, const Pattern& p, const FixSea
     }
   }
   if (search.fixes.empty()) out.no_fix = describe_no_fix(plan, p, search);
-  if (out.data_fix && (!out.later_start || out.data_fix->seconds <= out.later_start->seconds)) {
+  // A fix that turns no other run worse beats one that does; then the
+  // smaller move; a tie goes to the data plan.
+  auto better = [](const TimingFix& a, const TimingFix& b) {
+    if (a.breaks_others != b.breaks_others) return !a.breaks_others;
+    return a.seconds <= b.seconds;
+  };
+  if (out.data_fix && (!out.later_start || better(*out.data_fix, *out.later_start))) {
     out.cheapest = out.data_fix;
   } else {
     out.cheapest = out.later_start;

@@ -10,7 +10,8 @@
 //
 // Cheapest fix of a pattern: of the data-plan fix (a delivery that must land
 // earlier, or a fixed job start that must move) and starting the model's runs
-// later, each verified on every run of the pattern,
+// later, each verified on every run of the pattern, one that turns no other
+// run worse before one that does, then
 // the one that moves a clock by less; a tie goes to the data-plan fix, which
 // leaves the clinical workflow's time alone.
 

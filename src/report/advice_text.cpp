@@ -171,10 +171,12 @@ std::string describe_cause(const Plan& plan, const Blame& b, const Zone* zone) {
         const std::string input = quoted(plan, b.steps[static_cast<size_t>(b.cause - 1)].node);
         if (s.start_by && *s.input_ready <= *s.start_by) {
           out += "; its input " + input + " was there at " + at(*s.input_ready);
-        } else {
+        } else if (s.start_by && *s.start_by > b.needs_data_through) {
           out += "; it has no start between " + at(b.needs_data_through) + " (the data the run needs) and " +
-                 (s.start_by ? at(*s.start_by) : std::string("the run")) + ", and its input " + input + " landed at " +
-                 at(*s.input_ready);
+                 at(*s.start_by) + ", and its input " + input + " landed at " + at(*s.input_ready);
+        } else {
+          out += "; its latest on-time start is not after " + at(b.needs_data_through) +
+                 " (the data the run needs), and its input " + input + " landed at " + at(*s.input_ready);
         }
       }
       return out;
@@ -254,10 +256,15 @@ std::string describe_no_fix(const Plan& plan, const Pattern& p, const FixSearch&
            "so each needs its own change";
   }
   std::string out = "no single edit clears every run of this pattern";
-  if (!search.tried_nodes.empty()) {
+  std::vector<std::string> tried;
+  for (int n : search.tried_nodes) tried.push_back(quoted(plan, n));
+  if (search.tried_later_start) tried.push_back("the runs' start time");
+  if (!tried.empty()) {
     out += " (tried changing ";
-    for (size_t i = 0; i < search.tried_nodes.size(); ++i) out += (i ? ", " : "") + quoted(plan, search.tried_nodes[i]);
-    out += ", and starting the runs later)";
+    for (size_t i = 0; i < tried.size(); ++i) {
+      out += (i == 0 ? "" : i + 1 == tried.size() ? " and " : ", ") + tried[i];
+    }
+    out += ")";
   }
   return out;
 }

@@ -166,7 +166,10 @@ void write_run_explanation_text(std::ostream& out, const Plan& plan, const RunEx
   if (!x.scheduled) {
     out << paint(kYellow, "note") << ": " << format_local(model.zone->to_local(run.at)) << " is not a scheduled run of model "
         << model.id << " (runs at";
-    for (const RunSpec& spec : model.runs) out << " \"" << spec.at.text << "\"";
+    for (const RunSpec& spec : model.runs) {
+      out << " \"" << spec.at.text << "\"";
+      if (spec.calendar >= 0) out << " (calendar " << plan.calendar(spec.calendar).name << ")";
+    }
     out << "); nearest scheduled runs: "
         << (x.previous_run ? local_with_offset(*x.previous_run, model.zone) : std::string("none")) << " before, "
         << (x.next_run ? local_with_offset(*x.next_run, model.zone) : std::string("none"))
