@@ -29,3 +29,8 @@ run forecast "$PLAN" --db "$DB" --backtest-from 2026-02-26
 export READYBY_CACHE_DIR="${READYBY_CACHE_DIR:-$PWD/build/cache}"
 run intake pipelines/readmit-30d.proposal.yaml --from 2026-02-22 --days 28 --db "$DB"
 run intake pipelines/day-case-return-to-theatre.proposal.yaml --from 2026-02-22 --days 28 --format markdown
+# The report page: calendars, chain timelines, lineage, history and the screening, in one HTML file.
+REPORT="$PWD/build/larkspur-report.html"
+run report "$PLAN" --from 2026-02-22 --days 28 --db "$DB" --date 2026-03-03 \
+    --proposal pipelines/readmit-30d.proposal.yaml --out "$REPORT"
+echo "Open file://$REPORT in a browser to see the report page."

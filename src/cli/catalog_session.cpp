@@ -60,9 +60,10 @@ int open_catalog(const std::vector<std::string>& extra, bool with_index, Catalog
     std::cerr << diags.render();
     return kExitBadInput;
   }
-  std::string dir = index_dir();
+  std::string why;
+  std::string dir = index_dir(&why);
   if (dir.empty()) {
-    std::cerr << "readyby: no writable folder for the catalogue index (set READYBY_CACHE_DIR)\n";
+    std::cerr << "readyby: no usable folder for the catalogue index: " << why << "\n";
     return kExitBadInput;
   }
   IndexOpen opened = CatalogIndex::open(session->files, dir, &diags);

@@ -34,6 +34,7 @@ int cmd_forecast(const std::vector<std::string>& args);
 int cmd_catalog(const std::vector<std::string>& args);
 int cmd_reuse(const std::vector<std::string>& args);
 int cmd_intake(const std::vector<std::string>& args);
+int cmd_report(const std::vector<std::string>& args);
 
 /// True when `args` asks for help (-h / --help); prints `usage` then.
 bool wants_help(const std::vector<std::string>& args, const char* usage);

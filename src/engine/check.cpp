@@ -158,6 +158,8 @@ std::vector<PendingRun> runs_in_window(const Plan& plan, LocalDays from, int day
 
 RunResult Evaluation::pending_run(size_t i) const { return evaluate_run(*plan_, *engine_, pending_[i]); }
 
+RunResult Evaluation::run_at(int model, Instant at) const { return evaluate_run(*plan_, *engine_, {model, at}); }
+
 Evaluation evaluate(const Plan& plan, LocalDays from, int days, const ObservedDeliveries* observed) {
   Evaluation ev = evaluate_runs(plan, runs_in_window(plan, from, days), observed, true);
   ev.from = from;

@@ -60,6 +60,10 @@ class Evaluation {
   /// i-th, computed on demand, in the same order as `runs` would hold them.
   size_t pending_count() const { return pending_.size(); }
   RunResult pending_run(size_t i) const;
+  /// A run of `model` at `at` evaluated with this evaluation's engine (`at`
+  /// need not be a scheduled run, but its features' needs_data_through must
+  /// lie in the evaluated range, which reaches kLaterStartSearch past the window).
+  RunResult run_at(int model, Instant at) const;
   /// The chain behind a feature result: node indices from a source to the feature.
   std::vector<int> chain(const FeatureResult& f) const { return engine_->chain(f.feature, f.needs_data_through); }
   /// E_n(w) for any node upstream of a model feature, w within the evaluated range.

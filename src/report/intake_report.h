@@ -6,8 +6,9 @@
 // JSON keys (stable; more may be added): proposal, title, plan, model,
 // timezone, from, days, timing {verdict (on-time | at-risk | infeasible),
 // runs, ok, degraded, failed, tightest_slack_seconds (null when no run),
-// tightest_at, degraded_features[], patterns[] {description, runs,
-// failing_features[], chain[], fix, start_later, cheapest}}, reuse (the
+// tightest_at, degraded_features[], patterns[] {description, status (fail |
+// degraded), runs, failing_features[], chain[], fix, start_later, cheapest,
+// cause, no_fix}}, reuse (the
 // `reuse --format json` object), feasibility[] {id, name, coverage, in_house,
 // rank, computable (on-time | gaps | no), inputs[] {element, label, recency,
 // structured, feature (null when none), model_feature, allowed_age, status
@@ -16,7 +17,8 @@
 // recommendation {decision (reuse-and-validate | fix-data-plan-first |
 // close-gaps-or-build | build), summary, candidate, cheapest_fix, reasons[]},
 // cautions[], forecast (null without --db). A fix is {kind (land-earlier | move-start | start-later), node,
-// seconds, text}. Times are RFC 3339 in the model's zone.
+// seconds, text, edit, effect, breaks_others}; every fix shown was re-checked
+// and clears every run of its pattern. Times are RFC 3339 in the model's zone.
 
 #include <string>
 

@@ -9,6 +9,7 @@
 // are reported while building. Aliases are expanded; merge keys (`<<`) are
 // ordinary keys (and so unknown to every schema).
 
+#include <cstddef>
 #include <memory>
 #include <string>
 #include <string_view>
@@ -38,10 +39,23 @@ struct YamlNode {
   std::string describe() const;
 };
 
+/// Limits on what one document may expand to. Aliases are expanded into
+/// copies, so a few hundred bytes of nested aliases can describe billions of
+/// nodes; a document may hold at most kYamlNodesPerByte nodes per byte of
+/// its text (and at least kYamlMinNodeLimit), counted with every alias
+/// expanded. Ordinary documents hold far fewer nodes than bytes.
+inline constexpr size_t kYamlNodesPerByte = 4;
+inline constexpr size_t kYamlMinNodeLimit = 10000;
+/// The node limit for a document of `bytes` bytes.
+size_t yaml_node_limit(size_t bytes);
+
 /// Parses `text` (the contents of `path`). Returns the root node (null for an
 /// empty document) and adds to `diags` any syntax errors and duplicate keys
 /// (reported at the repeated key: "duplicate key 'x' (first defined at line N)").
-/// Returns false when the text could not be parsed at all.
+/// Returns false when the text could not be parsed at all: a YAML syntax
+/// error; text that is not UTF-8 (at the first bad byte); a quoted value with
+/// no closing quote (at the opening quote); or a document over the node
+/// limit (at the alias that would pass it).
 bool parse_yaml(const std::string& path, const std::string& text, YamlNode* root, Diagnostics* diags);
 
 /// Whether a plain scalar reads as a YAML number (int or float) or boolean.
