@@ -12,6 +12,12 @@ run validate "$PLAN"
 # Four weeks around the US daylight-saving change of 2026-03-08.
 run check "$PLAN" --from 2026-02-22 --days 28
 run check "$PLAN" --run discharge_delay@2026-03-08T06:30
+# Counterfactuals: what a later feed or a later job start would change, how
+# much later each feed could land, and what each one's loss would take down.
+run what-if "$PLAN" --from 2026-02-22 --days 28 --delay lab_results=PT1H10M
+run what-if "$PLAN" --from 2026-02-22 --days 28 --schedule "hie_merge=45 3 * * *"
+run margins "$PLAN" --from 2026-02-22 --days 28
+run impact "$PLAN" --from 2026-02-22 --days 28
 # Nightly monitoring: record 60 days of fictional landings (twice: the second
 # time adds nothing), then check one day against what actually landed.
 DB="$(mktemp -d)/history.db"

@@ -303,7 +303,8 @@ TEST_CASE("check --run blames the step late on its own account and shows a verif
   CHECK(o.out.find("re-checked: the run of this pattern ok; no other run changes") != std::string::npos);
   Outcome json = run("check " + kDemo + " --run discharge_delay@2026-03-08T06:30 --format json");
   CHECK(json.out.find(R"("cause": {"node": "census_snapshot", "kind": "late-start")") != std::string::npos);
-  CHECK(json.out.find(R"("edit": {"kind": "schedule", "node": "census_snapshot", "cron": "15 2 * * *")") != std::string::npos);
+  CHECK(json.out.find(R"("edit": {"kind": "schedule", "node": "census_snapshot", "cron": "15 2 * * *", "text": "schedule census_snapshot=15 2 * * *"})") !=
+        std::string::npos);
 }
 
 TEST_CASE("check --run at a time that is not a scheduled run says so and names the nearest runs") {

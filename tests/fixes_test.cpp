@@ -5,6 +5,7 @@
 #include <sstream>
 
 #include "engine/check.h"
+#include "engine/edit.h"
 #include "engine/fixes.h"
 #include "engine/patterns.h"
 #include "plan/plan_loader.h"
@@ -56,33 +57,34 @@ std::optional<Cron> moved_cron(const Cron& c, int64_t minutes) {
 std::optional<Plan> edited(const Plan& plan, const Fix& fix, int64_t minutes) {
   Plan out = plan;
   switch (fix.edit.kind) {
-    case FixEdit::Kind::delay: {
-      Node& n = out.nodes[static_cast<size_t>(fix.edit.node)];
+    case EditKind::delay: {
+      Node& n = out.nodes[static_cast<size_t>(fix.edit.target)];
       (n.kind == NodeKind::source ? n.lands_after : n.run_time).seconds -= minutes * 60;
       return out;
     }
-    case FixEdit::Kind::schedule: {
-      Node& n = out.nodes[static_cast<size_t>(fix.edit.node)];
-      std::optional<Cron> c = moved_cron(*n.trigger, fix.later ? minutes : -minutes);
+    case EditKind::schedule: {
+      Node& n = out.nodes[static_cast<size_t>(fix.edit.target)];
+      std::optional<Cron>& schedule = n.kind == NodeKind::source ? n.schedule : n.trigger;
+      std::optional<Cron> c = moved_cron(*schedule, fix.later ? minutes : -minutes);
       if (!c) return std::nullopt;
-      n.trigger = *c;
+      schedule = *c;
       return out;
     }
-    case FixEdit::Kind::runs: {
-      Model& m = out.models[static_cast<size_t>(fix.edit.model)];
+    case EditKind::runs: {
+      Model& m = out.models[static_cast<size_t>(fix.edit.target)];
       std::optional<Cron> c = moved_cron(m.runs.front().at, minutes);
       if (!c) return std::nullopt;
       m.runs.front().at = *c;
       return out;
     }
+    default: return std::nullopt;
   }
-  return std::nullopt;
 }
 
 // Where a run scheduled at `at` is in the edited plan: a runs edit moves it
 // by `minutes` of local time.
 Instant moved_run(const Plan& plan, const Fix& fix, int model, Instant at, int64_t minutes) {
-  if (fix.edit.kind != FixEdit::Kind::runs || fix.edit.model != model) return at;
+  if (fix.edit.kind != EditKind::runs || fix.edit.target != model) return at;
   const Zone& zone = *plan.models[static_cast<size_t>(model)].zone;
   return zone.from_local(zone.to_local(at) + Seconds(minutes * 60));
 }
@@ -103,6 +105,56 @@ RunStatus reference_status(const Plan& plan, reference::Freshness& ref, int mode
 bool clears(RunStatus after, RunStatus pattern_status, bool also_degraded) {
   return after == RunStatus::ok ||
          (pattern_status == RunStatus::fail && also_degraded && after == RunStatus::degraded);
+}
+
+
+// A random plan whose runs are often just late: daily schedules with room in
+// lands_after and run_time, fixed-time jobs near their inputs' landings, and
+// models with one run time and no calendar — the plans a fix can help.
+std::string near_miss_plan(std::mt19937_64& rng, int index) {
+  auto pick = [&](int n) { return static_cast<int>(rng() % static_cast<uint64_t>(n)); };
+  const char* zones[] = {"America/Chicago", "Europe/London", "America/New_York", "Australia/Sydney"};
+  auto daily = [&](int hour_from, int hours) {
+    return "\"" + std::to_string(pick(60)) + " " + std::to_string(hour_from + pick(hours)) + " * * " +
+           (pick(5) == 0 ? "mon-fri" : "*") + "\"";
+  };
+  std::ostringstream y;
+  y << "plan: near-miss-" << index << "\ntimezone: " << zones[pick(4)] << "\nsources:\n";
+  std::vector<std::string> ids;
+  for (int i = 0; i < 2 + pick(2); ++i) {
+    y << "  s" << i << ":\n";
+    if (pick(5) == 0) {
+      y << "    schedule: stream\n    lands_after: PT" << 5 + pick(60) << "M\n";
+    } else {
+      y << "    schedule: " << daily(0, 6) << "\n    lands_after: PT" << 20 + pick(160) << "M\n";
+      if (pick(3) == 0) y << "    timezone: " << zones[pick(4)] << "\n";
+    }
+    ids.push_back("s" + std::to_string(i));
+  }
+  y << "jobs:\n";
+  for (int i = 0; i < 1 + pick(3); ++i) {
+    y << "  j" << i << ":\n    inputs: [" << ids[static_cast<size_t>(pick(static_cast<int>(ids.size())))] << "]\n"
+      << "    run_time: PT" << 5 + pick(60) << "M\n";
+    if (pick(2) == 0) {
+      y << "    trigger: " << daily(1, 7) << "\n";
+      if (pick(3) == 0) y << "    timezone: " << zones[pick(4)] << "\n";
+    }
+    ids.push_back("j" + std::to_string(i));
+  }
+  y << "features:\n";
+  std::vector<std::string> features;
+  for (int i = 0; i < 1 + pick(2); ++i) {
+    y << "  f" << i << ":\n    inputs: [" << ids[ids.size() - 1 - static_cast<size_t>(pick(2))] << "]\n"
+      << "    max_age: PT" << 4 + pick(24) << "H\n";
+    if (pick(4) == 0) y << "    optional: true\n";
+    features.push_back("f" + std::to_string(i));
+  }
+  y << "models:\n  m0:\n";
+  if (pick(2) == 0) y << "    timezone: " << zones[pick(4)] << "\n";
+  y << "    features: [";
+  for (size_t k = 0; k < features.size(); ++k) y << (k ? ", " : "") << features[k];
+  y << "]\n    runs:\n      - at: \"" << pick(60) << " " << 5 + pick(4) << " * * *\"\n";
+  return y.str();
 }
 
 }  // namespace
@@ -139,13 +191,18 @@ TEST_CASE("a cron expression moved by minutes") {
 }
 
 TEST_CASE("every fix shown on random plans clears its pattern by the literal reference, one minute less does not") {
-  std::mt19937_64 rng(20260329);
+  // Two kinds of random plan: the harsh ones of the freshness property test
+  // (weekly and twice-monthly schedules, calendars, several late features
+  // per run: few of their patterns have a one-edit fix) and near misses.
+  const bool near_miss = GENERATE(false, true);
+  INFO((near_miss ? "near-miss plans" : "harsh plans"));
+  std::mt19937_64 rng(near_miss ? 20260308 : 20260329);
   // Windows around 2026 daylight-saving changes (US, EU, Australia).
   const char* windows[] = {"2026-03-06", "2026-10-30", "2026-03-27", "2026-10-23", "2026-04-03", "2026-10-02"};
   int plans = 0, patterns_seen = 0, fixes_checked = 0, minimal_checked = 0, effects_checked = 0;
   std::set<FixKind> kinds;
   for (int i = 0; plans < 300; ++i) {
-    const std::string text = testing::random_plan(rng, 1000 + i);
+    const std::string text = near_miss ? near_miss_plan(rng, i) : testing::random_plan(rng, 1000 + i);
     PlanLoadResult loaded = load_plan_text(text, "random.yaml");
     INFO(text);
     if (!loaded.plan) continue;  // a random schedule that never fires under its calendar
@@ -153,6 +210,7 @@ TEST_CASE("every fix shown on random plans clears its pattern by the literal ref
     const LocalDays from = *parse_date(windows[i % 6]);
     const int days = 8;
     Evaluation ev = evaluate_lazily(plan, from, days);
+    Evaluation stored = evaluate(plan, from, days);
     PatternCollector collector(plan, ev);
     collect_runs(ev, &collector);
     FixFinder finder(collector);
@@ -171,22 +229,25 @@ TEST_CASE("every fix shown on random plans clears its pattern by the literal ref
       for (const Fix& fix : search.fixes) {
         INFO("pattern of " << plan.models[static_cast<size_t>(p.model)].id << " first run "
                            << format_rfc3339(p.runs.front(), nullptr) << ", fix " << to_string(fix.kind) << " "
-                           << fix.seconds << " s, edit " << to_string(fix.edit.kind) << " " << fix.edit.cron);
+                           << fix.seconds << " s, edit " << edit_text(plan, fix.edit));
         REQUIRE(fix.seconds > 0);
         REQUIRE(fix.seconds % 60 == 0);
         const int64_t minutes = fix.seconds / 60;
         std::optional<Plan> after = edited(plan, fix, minutes);
-        if (fix.edit.kind != FixEdit::Kind::delay) {
-          // The fix's own cron text says the same as the test's moved masks.
+        // A fix is an edit that what-if takes as it is.
+        REQUIRE(edit_problem(plan, fix.edit).empty());
+        if (fix.edit.kind != EditKind::delay) {
+          // The fix's own cron says the same as the test's moved masks.
           REQUIRE(after);
-          CronParse own = parse_cron(fix.edit.cron);
-          REQUIRE(own.value);
-          const Cron& test_cron = fix.edit.kind == FixEdit::Kind::schedule
-                                      ? *after->nodes[static_cast<size_t>(fix.edit.node)].trigger
-                                      : after->models[static_cast<size_t>(fix.edit.model)].runs.front().at;
-          CHECK(own.value->minutes == test_cron.minutes);
-          CHECK(own.value->hours == test_cron.hours);
-          CHECK((own.value->weekdays & 0x7F) == (test_cron.weekdays & 0x7F));
+          const std::optional<Cron>& own = fix.edit.cron;
+          REQUIRE(own);
+          const Node* target = fix.edit.kind == EditKind::schedule ? &after->nodes[static_cast<size_t>(fix.edit.target)] : nullptr;
+          const Cron& test_cron = !target ? after->models[static_cast<size_t>(fix.edit.target)].runs.front().at
+                                  : target->kind == NodeKind::source ? *target->schedule
+                                                                     : *target->trigger;
+          CHECK(own->minutes == test_cron.minutes);
+          CHECK(own->hours == test_cron.hours);
+          CHECK((own->weekdays & 0x7F) == (test_cron.weekdays & 0x7F));
         }
         REQUIRE(after);
         reference::Freshness edited_ref(*after);
@@ -233,18 +294,44 @@ TEST_CASE("every fix shown on random plans clears its pattern by the literal ref
         }
         CHECK(reported == expected);
         ++effects_checked;
+        // 4. The edit engine (engine/edit.h) agrees: the pattern clears, and
+        // the other runs that change are the same.
+        const Plan applied = apply_edits(plan, {fix.edit});
+        Evaluation again = reevaluate(stored, applied, {fix.edit});
+        for (Instant at : p.runs) {
+          const Instant moved = moved_run(plan, fix, p.model, at, minutes);
+          bool found = false;
+          for (const RunResult& r : again.runs) {
+            if (r.model != p.model || r.at != moved) continue;
+            found = true;
+            bool optional_bad = false;
+            reference_status(plan, original, p.model, at, &optional_bad);
+            CHECK(clears(r.status, p.status, p.status == RunStatus::fail && optional_bad));
+          }
+          // A run moved past the window's last date is outside the re-evaluation.
+          if (!found) CHECK(fix.edit.kind == EditKind::runs);
+        }
+        if (fix.edit.kind != EditKind::runs) {
+          std::set<std::tuple<int, int64_t, int, int>> changed;
+          for (const StatusChange& c : status_changes(stored, again)) {
+            if (c.model == p.model && in_pattern.count(c.at)) continue;
+            changed.insert({c.model, to_unix(c.at), static_cast<int>(c.before), static_cast<int>(c.after)});
+          }
+          CHECK(changed == reported);
+        }
       }
     }
   }
   CHECK(plans == 300);
   CHECK(patterns_seen > 200);
-  // Random plans are harsh (weekly and twice-monthly schedules, several late
-  // features per run): about a quarter of their patterns have a single-edit fix.
-  CHECK(fixes_checked >= 100);
-  CHECK(minimal_checked >= 80);
   CHECK(effects_checked == fixes_checked);
-  // Every kind of fix occurs.
-  CHECK(kinds.count(FixKind::land_earlier) == 1);
-  CHECK(kinds.count(FixKind::move_start) == 1);
-  CHECK(kinds.count(FixKind::start_later) == 1);
+  // Harsh plans: 490 patterns, 11 with a fix; near misses: 226 and 224.
+  if (near_miss) {
+    CHECK(fixes_checked >= 200);
+    CHECK(minimal_checked >= 150);
+    // Every kind of fix occurs.
+    CHECK(kinds.count(FixKind::land_earlier) == 1);
+    CHECK(kinds.count(FixKind::move_start) == 1);
+    CHECK(kinds.count(FixKind::start_later) == 1);
+  }
 }

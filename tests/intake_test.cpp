@@ -235,7 +235,7 @@ TEST_CASE("intake golden: readmit-30d — LACE covers and runs on time: reuse an
   CHECK(doc.str("timing.patterns[0].cheapest.node") == "hie_merge");
   CHECK(doc.num("timing.patterns[0].cheapest.seconds") == 1800);
   // Every fix is re-checked on the pattern's runs before it is shown.
-  CHECK(doc.str("timing.patterns[0].cheapest.edit") == "schedule hie_merge=\"30 3 * * *\"");
+  CHECK(doc.str("timing.patterns[0].cheapest.edit") == "schedule hie_merge=30 3 * * *");
   CHECK(doc.str("timing.patterns[0].cheapest.effect") == "re-checked: all 10 runs of this pattern ok; no other run changes");
   // A later start would be 20h 10m: past midnight, which a weekday-calendar
   // run time cannot move to as one cron expression, so none is offered.

@@ -237,7 +237,7 @@ TEST_CASE("lineage: Graphviz lays out every node of a small cone; a large cone i
   CHECK(count_of(b->html.substr(table, b->html.find("</table>", table) - table), "<tr>") == kSummaryRows + 1);
 }
 
-TEST_CASE("margins: headroom of the nodes on the chains of ok runs, with the run that binds it") {
+TEST_CASE("margins: how much later a node could land before an ok run suffers, with the run that binds it") {
   auto r = render(kPlan);
   int nightly = r->plan.find_node("nightly"), board = r->plan.find_node("board");
   const std::vector<NodeMargin>& margins = r->facts.advice.margins;

@@ -90,6 +90,32 @@ const char kIntakeUsage[] =
     "  The proposal must name a plan and a model. Defaults: --from today in the model's zone,\n"
     "  --days 28, --format text (markdown is made to paste into a review ticket).\n"
     "  Exit 0 when every run is ok or degraded, 1 when some run fails, 2 on bad input.\n";
+const char kWhatIfUsage[] =
+    "usage: readyby what-if PLAN [--delay NODE=DUR]... [--fail NODE]... [--schedule NODE=CRON]...\n"
+    "                       [--runs MODEL=CRON]... [--max-age FEATURE=DUR]...\n"
+    "                       [--from YYYY-MM-DD] [--days N] [--format text|json]\n"
+    "  Checks the plan with edits applied and lists the runs whose status changes.\n"
+    "  --delay: every landing of NODE happens DUR later (ISO 8601; -PT10M is earlier);\n"
+    "  --fail: NODE never lands; --schedule: a source's schedule or a job's or feature's\n"
+    "  cron trigger replaced (NODE=inputs: triggered by its inputs); --runs: a model's\n"
+    "  run times replaced; --max-age: a feature's max_age replaced. Edits apply in order.\n"
+    "  Defaults: --from today in the plan's zone, --days 28, --format text.\n"
+    "  Exit 1 when an edit makes some run fail that did not fail before, else 0;\n"
+    "  2 on bad input.\n";
+const char kMarginsUsage[] =
+    "usage: readyby margins PLAN [--from YYYY-MM-DD] [--days N] [--format text|json] [--verify]\n"
+    "  For every node: how much later (whole minutes) every landing could be without any\n"
+    "  run that is ok today degrading or failing, and the run that binds it. Smallest first.\n"
+    "  Each margin is re-checked on its binding run; --verify re-evaluates every node's\n"
+    "  downstream cone at its margin and one minute more (slower).\n"
+    "  Defaults: --from today in the plan's zone, --days 28, --format text.\n"
+    "  Exit 0, or 1 when some run of the window fails (as check); 2 on bad input.\n";
+const char kImpactUsage[] =
+    "usage: readyby impact PLAN [--from YYYY-MM-DD] [--days N] [--format text|json]\n"
+    "  For every node: the runs, per model, that fail or degrade when the node never\n"
+    "  lands, ranked; nodes whose loss fails runs of two or more models are called\n"
+    "  single points of failure. Defaults as for check. Exit 0, or 1 when some run of\n"
+    "  the window fails (as check); 2 on bad input.\n";
 
 const char kReportUsage[] =
     "usage: readyby report PLAN [--from YYYY-MM-DD] [--days N] [--db FILE [--date YYYY-MM-DD]]\n"
@@ -115,6 +141,9 @@ const std::vector<Command>& command_table() {
       {"catalog", "validate, search and show the catalogue of published scores", kCatalogUsage, cmd_catalog},
       {"reuse", "has an established score already covered this proposal?", kReuseUsage, cmd_reuse},
       {"intake", "screen a proposed model: data timing, established scores, recommendation", kIntakeUsage, cmd_intake},
+      {"what-if", "check the plan with edits (delay, fail, schedule, runs, max-age) and list what changes", kWhatIfUsage, cmd_what_if},
+      {"margins", "how much later each node could land before an ok run degrades or fails", kMarginsUsage, cmd_margins},
+      {"impact", "which runs fail or degrade when a node never lands; single points of failure", kImpactUsage, cmd_impact},
       {"report", "write an HTML page of calendars, chain timelines, lineage and history", kReportUsage, cmd_report},
       {"help", "list the commands, or show one command's usage", kHelpUsage, cmd_help},
   };

@@ -34,6 +34,9 @@ int cmd_forecast(const std::vector<std::string>& args);
 int cmd_catalog(const std::vector<std::string>& args);
 int cmd_reuse(const std::vector<std::string>& args);
 int cmd_intake(const std::vector<std::string>& args);
+int cmd_what_if(const std::vector<std::string>& args);
+int cmd_margins(const std::vector<std::string>& args);
+int cmd_impact(const std::vector<std::string>& args);
 int cmd_report(const std::vector<std::string>& args);
 
 /// True when `args` asks for help (-h / --help); prints `usage` then.

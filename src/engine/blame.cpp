@@ -71,7 +71,8 @@ Blame blame(const Plan& plan, const FreshnessEngine& engine, int feature, Instan
     s.node = chain[i];
     s.ready = engine.ready(chain[i], w);
     const Node& node = plan.nodes[static_cast<size_t>(s.node)];
-    if (i > 0 && !is_monitored(monitored, s.node)) {
+    s.recorded = is_monitored(monitored, s.node);
+    if (i > 0 && !s.recorded) {
       s.input_ready = out.steps[i - 1].ready;
       if (s.ready) s.start = *s.ready - Seconds(node.run_time.seconds);
     }

@@ -54,6 +54,8 @@ struct BlameStep {
   /// before the gap (RFC 5545 §3.3.5); this is the wall-clock time it was
   /// written for, e.g. 02:30 for a start that ran at 03:30.
   std::optional<LocalTime> gap_nominal;
+  /// The node's landings are recorded (nightly): it is a leaf of the chain.
+  bool recorded = false;
   /// True when `latest` is before w (or absent): no landing of data that
   /// reaches w could be on time; a step downstream is at fault.
   bool deadline_before_data = false;

@@ -10,15 +10,6 @@
 
 namespace readyby {
 
-const char* to_string(FixEdit::Kind k) {
-  switch (k) {
-    case FixEdit::Kind::delay: return "delay";
-    case FixEdit::Kind::schedule: return "schedule";
-    case FixEdit::Kind::runs: return "runs";
-  }
-  return "?";
-}
-
 const char* to_string(FixKind k) {
   switch (k) {
     case FixKind::land_earlier: return "land-earlier";
@@ -122,27 +113,44 @@ namespace {
 class EditTrial {
  public:
   EditTrial(const Plan& plan, const Lineage& lineage, const FreshnessEngine& base, const std::vector<bool>* monitored)
-      : plan_(plan), lineage_(lineage), base_(base), monitored_(monitored), in_cone_(plan.nodes.size(), false),
-        stamp_(plan.nodes.size(), 0), memo_(plan.nodes.size()) {}
+      : plan_(plan), work_(plan), lineage_(lineage), base_(base), monitored_(monitored),
+        in_cone_(plan.nodes.size(), false), stamp_(plan.nodes.size(), 0), memo_(plan.nodes.size()) {}
 
-  /// Sets the edit under trial; false when its cron does not parse.
+  /// Sets the edit under trial (it must be valid: edit_problem empty).
   /// `runs_shift_seconds`: for a runs edit, how far each run moves.
-  bool set(const FixEdit& edit, int64_t runs_shift_seconds = 0) {
+  void set(const Edit& edit, int64_t runs_shift_seconds = 0) {
+    restore();
     edit_ = edit;
     runs_shift_ = runs_shift_seconds;
-    cron_.reset();
-    if (edit.kind != FixEdit::Kind::delay) {
-      CronParse parsed = parse_cron(edit.cron);
-      if (!parsed.value) return false;
-      cron_ = std::move(parsed.value);
-    }
-    if (edit.kind == FixEdit::Kind::runs) {
+    // The working copy gets the edit as apply_edits (engine/edit.h) applies it.
+    if (edit.kind == EditKind::runs) {
+      Model& model = work_.models[static_cast<size_t>(edit.target)];
+      RunSpec spec;
+      spec.at = *edit.cron;
+      model.runs = {spec};
       std::fill(in_cone_.begin(), in_cone_.end(), false);
       cone_node_ = -1;
-    } else if (edit.node != cone_node_) {
+      return;
+    }
+    Node& node = work_.nodes[static_cast<size_t>(edit.target)];
+    switch (edit.kind) {
+      case EditKind::delay: (node.kind == NodeKind::source ? node.lands_after : node.run_time).seconds += edit.seconds; break;
+      case EditKind::fail: node.fails = true; break;
+      case EditKind::schedule:
+        if (node.kind == NodeKind::source) {
+          node.schedule = edit.cron;
+          node.stream = false;
+        } else {
+          node.trigger = edit.cron;
+        }
+        break;
+      case EditKind::max_age: node.max_age.seconds = edit.seconds; break;
+      case EditKind::runs: break;
+    }
+    if (edit.target != cone_node_) {
       std::fill(in_cone_.begin(), in_cone_.end(), false);
-      std::vector<int> stack = {edit.node};
-      in_cone_[static_cast<size_t>(edit.node)] = true;
+      std::vector<int> stack = {edit.target};
+      in_cone_[static_cast<size_t>(edit.target)] = true;
       while (!stack.empty()) {
         int n = stack.back();
         stack.pop_back();
@@ -150,14 +158,13 @@ class EditTrial {
           if (!in_cone_[static_cast<size_t>(c)]) in_cone_[static_cast<size_t>(c)] = true, stack.push_back(c);
         }
       }
-      cone_node_ = edit.node;
+      cone_node_ = edit.target;
     }
-    return true;
   }
 
   /// Whether the edit can change a run of `model`.
   bool affects(int model) const {
-    if (edit_.kind == FixEdit::Kind::runs) return edit_.model == model;
+    if (edit_.kind == EditKind::runs) return edit_.target == model;
     for (int f : plan_.models[static_cast<size_t>(model)].features) {
       if (in_cone_[static_cast<size_t>(f)]) return true;
     }
@@ -166,7 +173,7 @@ class EditTrial {
 
   /// Where a run scheduled at `at` happens under the edit.
   Instant moved(int model, Instant at) const {
-    if (edit_.kind != FixEdit::Kind::runs || edit_.model != model) return at;
+    if (edit_.kind != EditKind::runs || edit_.target != model) return at;
     const Zone& zone = *plan_.models[static_cast<size_t>(model)].zone;
     return zone.from_local(zone.to_local(at) + Seconds(runs_shift_));
   }
@@ -180,14 +187,14 @@ class EditTrial {
 
   /// The run scheduled at `at`, evaluated under the edit (DESIGN §4 "A run").
   RunResult run(int model, Instant scheduled) {
-    const Model& m = plan_.models[static_cast<size_t>(model)];
+    const Model& m = work_.models[static_cast<size_t>(model)];
     const Instant at = moved(model, scheduled);
     RunResult out;
     out.model = model;
     out.at = at;
     bool fail = false, degraded = false;
     for (int f : m.features) {
-      const Node& feature = plan_.nodes[static_cast<size_t>(f)];
+      const Node& feature = work_.nodes[static_cast<size_t>(f)];
       FeatureResult fr;
       fr.feature = f;
       fr.optional = feature.optional;
@@ -207,10 +214,23 @@ class EditTrial {
   }
 
  private:
+  // Undoes the edit on the working copy.
+  void restore() {
+    if (edit_.target < 0) return;
+    if (edit_.kind == EditKind::runs) {
+      work_.models[static_cast<size_t>(edit_.target)].runs = plan_.models[static_cast<size_t>(edit_.target)].runs;
+    } else {
+      work_.nodes[static_cast<size_t>(edit_.target)] = plan_.nodes[static_cast<size_t>(edit_.target)];
+    }
+    edit_.target = -1;
+  }
+
   bool monitored(int n) const {
     return monitored_ && static_cast<size_t>(n) < monitored_->size() && (*monitored_)[static_cast<size_t>(n)];
   }
 
+  // E_n(w) on the working copy: nodes outside the edited cone from the
+  // evaluation's profiles, the others by the recursion of DESIGN §4.
   std::optional<int64_t> eval(int n, int64_t w) {
     const size_t i = static_cast<size_t>(n);
     if (!in_cone_[i]) {
@@ -218,19 +238,26 @@ class EditTrial {
       return r ? std::optional<int64_t>(to_unix(*r)) : std::nullopt;
     }
     if (stamp_[i] == query_) return memo_[i];
-    const Node& node = plan_.nodes[i];
-    const bool edited = n == edit_.node;
-    const int64_t delay = edited && edit_.kind == FixEdit::Kind::delay ? edit_.seconds : 0;
+    const Node& node = work_.nodes[i];
+    const Node& before = plan_.nodes[i];
     std::optional<int64_t> e;
-    if (monitored(n) || (node.kind == NodeKind::source && !(edited && cron_))) {
-      // Recorded landings or a declared delivery: only a delay changes them.
+    if (node.fails) {
+      // never lands
+    } else if (monitored(n)) {
+      // Recorded landings move with the node's lands_after (sources) or
+      // run_time (jobs, features), as in the freshness engine.
       std::optional<Instant> r = base_.ready(n, from_unix(w));
-      if (r) e = to_unix(*r) + delay;
+      const int64_t shift = node.kind == NodeKind::source ? node.lands_after.seconds - before.lands_after.seconds
+                                                          : node.run_time.seconds - before.run_time.seconds;
+      if (r) e = to_unix(*r) + shift;
     } else if (node.kind == NodeKind::source) {
-      // A replaced delivery schedule.
-      std::optional<Instant> s = next_occurrence(*cron_, *node.zone, plan_.calendar(node.calendar),
-                                                 from_unix(w + node.data_lag.seconds));
-      if (s) e = to_unix(*s) + node.lands_after.seconds;
+      if (node.stream) {
+        e = w + node.lands_after.seconds;
+      } else {
+        std::optional<Instant> s = next_occurrence(*node.schedule, *node.zone, work_.calendar(node.calendar),
+                                                   from_unix(w + node.data_lag.seconds));
+        if (s) e = to_unix(*s) + node.lands_after.seconds;
+      }
     } else {
       std::optional<int64_t> m;
       bool never = false;
@@ -243,12 +270,12 @@ class EditTrial {
         m = m ? std::max(*m, *r) : *r;
       }
       if (!never && m) {
-        const Cron* trigger = edited && cron_ ? &*cron_ : node.trigger ? &*node.trigger : nullptr;
-        if (trigger) {
-          std::optional<Instant> c = next_occurrence(*trigger, *node.zone, plan_.calendar(node.calendar), from_unix(*m));
-          if (c) e = to_unix(*c) + node.run_time.seconds + delay;
+        if (node.trigger) {
+          std::optional<Instant> c =
+              next_occurrence(*node.trigger, *node.zone, work_.calendar(node.calendar), from_unix(*m));
+          if (c) e = to_unix(*c) + node.run_time.seconds;
         } else {
-          e = *m + node.run_time.seconds + delay;
+          e = *m + node.run_time.seconds;
         }
       }
     }
@@ -258,12 +285,12 @@ class EditTrial {
   }
 
   const Plan& plan_;
+  Plan work_;  // the plan with the edit under trial applied
   const Lineage& lineage_;
   const FreshnessEngine& base_;
   const std::vector<bool>* monitored_;
-  FixEdit edit_;
+  Edit edit_;
   int64_t runs_shift_ = 0;
-  std::optional<Cron> cron_;
   int cone_node_ = -1;
   std::vector<bool> in_cone_;
   uint64_t query_ = 0;
@@ -299,10 +326,11 @@ std::optional<int64_t> minimal_size(const std::function<bool(int64_t)>& passes, 
 struct Candidate {
   FixKind kind;
   int node;
-  bool later;
+  bool later;         // move_start: later (else earlier)
+  bool by_schedule;   // land_earlier of a source: move its delivery schedule (else delay)
   int64_t guess_seconds;
   friend bool operator==(const Candidate& a, const Candidate& b) {
-    return a.kind == b.kind && a.node == b.node && a.later == b.later;
+    return a.kind == b.kind && a.node == b.node && a.later == b.later && a.by_schedule == b.by_schedule;
   }
 };
 
@@ -314,29 +342,36 @@ void candidates_from(const Plan& plan, const Blame& b, const std::vector<bool>* 
   auto add = [&](Candidate c) {
     if (std::find(out->begin(), out->end(), c) == out->end()) out->push_back(c);
   };
+  auto recorded = [&](int n) {
+    return monitored && static_cast<size_t>(n) < monitored->size() && (*monitored)[static_cast<size_t>(n)];
+  };
+  // A step that must land earlier: a delay while it allows, and for a
+  // delivery on a schedule, that schedule moved earlier.
+  auto land_earlier = [&](int node, int64_t guess) {
+    add({FixKind::land_earlier, node, false, false, guess});
+    const Node& n = plan.nodes[static_cast<size_t>(node)];
+    if (n.kind == NodeKind::source && n.schedule && !recorded(node)) {
+      add({FixKind::land_earlier, node, false, true, guess});
+    }
+  };
   const int64_t late = s.ready && s.latest ? (*s.ready - *s.latest).count() : 0;
   switch (b.kind) {
     case CauseKind::late_delivery:
     case CauseKind::slow_step:
-      add({FixKind::land_earlier, s.node, false, late});
+      land_earlier(s.node, late);
       break;
     case CauseKind::stale_start: {
-      add({FixKind::move_start, s.node, true, (*s.input_ready - *s.stale_start).count()});
-      const BlameStep& input = b.steps[static_cast<size_t>(b.cause - 1)];
-      const Node& in = plan.nodes[static_cast<size_t>(input.node)];
-      const bool recorded = monitored && (*monitored)[static_cast<size_t>(input.node)];
-      if (in.kind == NodeKind::source || recorded || in.run_time.seconds >= 60) {
-        add({FixKind::land_earlier, input.node, false, (*s.input_ready - *s.stale_start).count()});
-      }
+      const int64_t gap = (*s.input_ready - *s.stale_start).count();
+      add({FixKind::move_start, s.node, true, true, gap});
+      land_earlier(b.steps[static_cast<size_t>(b.cause - 1)].node, gap);
       break;
     }
     case CauseKind::late_start:
-      add({FixKind::move_start, s.node, false, s.start && s.start_by ? (*s.start - *s.start_by).count() : late});
-      add({FixKind::land_earlier, s.node, false, late});
+      add({FixKind::move_start, s.node, false, true, s.start && s.start_by ? (*s.start - *s.start_by).count() : late});
+      land_earlier(s.node, late);
       break;
     default: break;
   }
-  (void)plan;
 }
 
 }  // namespace
@@ -350,10 +385,14 @@ struct FixFinder::State {
   const Lineage& lineage;
   const std::vector<bool>* monitored;
   mutable EditTrial trial;
+  // Scratch for the walks up from a pattern's features.
+  std::vector<uint32_t> reach, seen;
+  uint32_t walk = 0;
 
   explicit State(const PatternCollector& c)
       : collector(c), plan(c.plan()), ev(c.evaluation()), lineage(*c.evaluation().lineage_), monitored(c.monitored()),
-        trial(c.plan(), *c.evaluation().lineage_, c.evaluation().engine(), c.monitored()) {}
+        trial(c.plan(), *c.evaluation().lineage_, c.evaluation().engine(), c.monitored()),
+        reach(c.plan().nodes.size(), 0), seen(c.plan().nodes.size(), 0) {}
 
   bool is_monitored(int n) const {
     return monitored && static_cast<size_t>(n) < monitored->size() && (*monitored)[static_cast<size_t>(n)];
@@ -389,96 +428,142 @@ FixSearch FixFinder::find(const Pattern& p) const {
   }
   PatternRuns runs;
   int64_t worst_late = 0;
-  for (Instant at : p.runs) {
-    RunResult base = st.ev.run_at(p.model, at);
-    bool optional_bad = false;
-    for (const FeatureResult& f : base.features) {
-      if (f.optional && f.status != FeatureStatus::ok) optional_bad = true;
-    }
-    runs.at.push_back(at);
-    runs.also_degraded.push_back(p.status == RunStatus::fail && optional_bad);
-  }
   for (const PatternFeature& f : p.features) worst_late = std::max(worst_late, f.worst_late_seconds);
 
+  // Whether every run of the pattern clears with the edit under trial; the
+  // runs' own optional features are looked at once, on the first trial.
   auto passes_all = [&]() {
+    if (runs.at.empty()) {
+      for (Instant at : p.runs) {
+        bool optional_bad = false;
+        if (p.status == RunStatus::fail) {
+          for (const FeatureResult& f : st.ev.run_at(p.model, at).features) {
+            if (f.optional && f.status != FeatureStatus::ok) optional_bad = true;
+          }
+        }
+        runs.at.push_back(at);
+        runs.also_degraded.push_back(optional_bad);
+      }
+    }
     for (size_t i = 0; i < runs.at.size(); ++i) {
       if (!clears(trial.run(p.model, runs.at[i]), p.status, runs.also_degraded[i])) return false;
     }
     return true;
   };
 
-  // Which steps could clear every feature of the pattern: upstream of all.
-  std::vector<bool> common(plan.nodes.size(), true);
+  // Which steps could clear every feature of the pattern: those upstream of
+  // (or equal to) all of them, counted by one walk up from each feature.
+  std::vector<uint32_t>& reach = st.reach;
+  std::vector<uint32_t>& seen = st.seen;
+  std::vector<int> stack;
+  uint32_t features_walked = 0;
   for (const PatternFeature& f : p.features) {
-    std::vector<bool> up = st.lineage.upstream_mask({f.feature});
-    for (size_t n = 0; n < common.size(); ++n) common[n] = common[n] && up[n];
+    ++st.walk;
+    ++features_walked;
+    stack.assign(1, f.feature);
+    seen[static_cast<size_t>(f.feature)] = st.walk;
+    while (!stack.empty()) {
+      const int n = stack.back();
+      stack.pop_back();
+      // Only nodes every earlier walk reached can still be common.
+      if (reach[static_cast<size_t>(n)] + 1 == features_walked) reach[static_cast<size_t>(n)] = features_walked;
+      for (int in : st.lineage.inputs(n)) {
+        if (seen[static_cast<size_t>(in)] != st.walk) seen[static_cast<size_t>(in)] = st.walk, stack.push_back(in);
+      }
+    }
   }
-  out.causes_apart = std::none_of(common.begin(), common.end(), [](bool b) { return b; });
+  auto common_step = [&](int n) { return features_walked > 0 && reach[static_cast<size_t>(n)] == features_walked; };
+  bool any_common = false;
+  // The common steps are upstream of the first feature: look there only.
+  if (!p.features.empty()) {
+    ++st.walk;
+    stack.assign(1, p.features.front().feature);
+    while (!stack.empty() && !any_common) {
+      const int n = stack.back();
+      stack.pop_back();
+      if (common_step(n)) any_common = true;
+      for (int in : st.lineage.inputs(n)) {
+        if (seen[static_cast<size_t>(in)] != st.walk) seen[static_cast<size_t>(in)] = st.walk, stack.push_back(in);
+      }
+    }
+  }
+  out.causes_apart = !any_common;
+  // Reset the counts for the next pattern: every node a walk counted is
+  // upstream of the first feature.
+  auto reset_counts = [&] {
+    ++st.walk;
+    if (p.features.empty()) return;
+    stack.assign(1, p.features.front().feature);
+    seen[static_cast<size_t>(p.features.front().feature)] = st.walk;
+    while (!stack.empty()) {
+      const int n = stack.back();
+      stack.pop_back();
+      reach[static_cast<size_t>(n)] = 0;
+      for (int in : st.lineage.inputs(n)) {
+        if (seen[static_cast<size_t>(in)] != st.walk) seen[static_cast<size_t>(in)] = st.walk, stack.push_back(in);
+      }
+    }
+  };
 
   // Candidates: the worst run's blame, then other runs' blames if needed.
   std::vector<Candidate> candidates;
   candidates_from(plan, p.blame, st.monitored, &candidates);
 
   std::vector<Fix> found;
-  std::set<std::pair<int, int>> tried;  // (kind, node)
+  std::set<std::tuple<int, int, int, int>> tried;  // (kind, later, by_schedule, node)
   auto try_candidate = [&](const Candidate& c) {
-    if (!tried.insert({static_cast<int>(c.kind) * 2 + (c.later ? 1 : 0), c.node}).second) return;
+    if (!tried.insert({static_cast<int>(c.kind), c.later, c.by_schedule, c.node}).second) return;
     auto note_tried = [&] {
       if (std::find(out.tried_nodes.begin(), out.tried_nodes.end(), c.node) == out.tried_nodes.end()) {
         out.tried_nodes.push_back(c.node);
       }
     };
-    if (!common[static_cast<size_t>(c.node)]) {
+    if (!common_step(c.node)) {
       note_tried();
       return;
     }
     const Node& node = plan.nodes[static_cast<size_t>(c.node)];
-    FixEdit edit;
-    edit.node = c.node;
-    std::function<bool(int64_t)> passes;
+    // The edit of size `minutes`, or nullopt when it cannot be written.
+    std::function<std::optional<Edit>(int64_t)> edit_of;
     int64_t cap = 0;
-    if (c.kind == FixKind::land_earlier) {
-      edit.kind = FixEdit::Kind::delay;
-      const bool free_landing = node.kind == NodeKind::source || st.is_monitored(c.node);
-      cap = free_landing ? minutes_up(std::max(worst_late, c.guess_seconds)) + 2 * 24 * 60
-                         : node.run_time.seconds / 60;
-      passes = [&, edit](int64_t minutes) mutable {
-        edit.seconds = -minutes * 60;
-        trial.set(edit);
-        return passes_all();
-      };
+    if (!c.by_schedule) {
+      // delay: a lands_after or run_time cannot fall below zero.
+      cap = (node.kind == NodeKind::source ? node.lands_after.seconds : node.run_time.seconds) / 60;
+      edit_of = [&, c](int64_t minutes) -> std::optional<Edit> { return Edit::delay(c.node, -minutes * 60); };
     } else {
-      if (!node.trigger) return;
-      edit.kind = FixEdit::Kind::schedule;
+      const std::optional<Cron>& schedule = node.kind == NodeKind::source ? node.schedule : node.trigger;
+      if (!schedule) return;
       cap = 24 * 60 - 1;
-      const bool calendar = node.calendar >= 0;
       const int sign = c.later ? 1 : -1;
-      passes = [&, edit, sign, calendar](int64_t minutes) mutable {
-        std::optional<std::string> cron = shifted_cron(*node.trigger, sign * minutes, calendar);
-        if (!cron) return false;
-        edit.cron = *cron;
-        if (!trial.set(edit)) return false;
-        return passes_all();
+      const bool calendar = node.calendar >= 0;
+      edit_of = [&, c, sign, calendar](int64_t minutes) -> std::optional<Edit> {
+        std::optional<std::string> text = shifted_cron(*schedule, sign * minutes, calendar);
+        if (!text) return std::nullopt;
+        CronParse parsed = parse_cron(*text);
+        if (!parsed.value) return std::nullopt;
+        return Edit::schedule(c.node, *parsed.value);
       };
     }
+    auto passes = [&](int64_t minutes) {
+      std::optional<Edit> edit = edit_of(minutes);
+      if (!edit || !edit_problem(plan, *edit).empty()) return false;
+      trial.set(*edit);
+      return passes_all();
+    };
     std::optional<int64_t> size = minimal_size(passes, minutes_up(c.guess_seconds), cap);
     if (!size) {
       note_tried();
       return;
     }
-    passes(*size);  // leaves the trial set to the found edit
     Fix fix;
     fix.kind = c.kind;
     fix.node = c.node;
     fix.seconds = *size * 60;
     fix.later = c.later;
-    if (c.kind == FixKind::land_earlier) {
-      edit.seconds = -fix.seconds;
-    } else {
-      edit.cron = *shifted_cron(*node.trigger, (c.later ? 1 : -1) * *size, node.calendar >= 0);
-      fix.from_cron = node.trigger->text;
+    fix.edit = *edit_of(*size);
+    if (c.by_schedule) {
+      fix.from_cron = (node.kind == NodeKind::source ? node.schedule : node.trigger)->text;
     }
-    fix.edit = edit;
     found.push_back(std::move(fix));
   };
   for (const Candidate& c : candidates) try_candidate(c);
@@ -503,30 +588,46 @@ FixSearch FixFinder::find(const Pattern& p) const {
       for (const Candidate& c : more) try_candidate(c);
     }
   }
+  // Of the two ways to make a source land earlier, keep the delay when both work.
+  for (size_t i = 0; i < found.size(); ++i) {
+    for (size_t j = 0; j < found.size(); ++j) {
+      if (i != j && found[i].kind == FixKind::land_earlier && found[j].kind == FixKind::land_earlier &&
+          found[i].node == found[j].node && found[i].edit.kind == EditKind::delay &&
+          found[j].edit.kind == EditKind::schedule) {
+        found.erase(found.begin() + static_cast<long>(j));
+        i = static_cast<size_t>(-1);
+        break;
+      }
+    }
+  }
 
-  // Starting the runs later: one run specification that can move.
-  if (model.runs.size() == 1) {
+  // Starting the runs later: one run specification without a calendar (a
+  // runs edit replaces the runs with one cron and no calendar).
+  if (model.runs.size() == 1 && model.runs.front().calendar < 0) {
     const RunSpec& spec = model.runs.front();
-    FixEdit edit;
-    edit.kind = FixEdit::Kind::runs;
-    edit.model = p.model;
-    auto passes = [&, edit](int64_t minutes) mutable {
-      std::optional<std::string> cron = shifted_cron(spec.at, minutes, spec.calendar >= 0);
-      if (!cron) return false;
-      edit.cron = *cron;
-      if (!trial.set(edit, minutes * 60)) return false;
+    auto edit_of = [&](int64_t minutes) -> std::optional<Edit> {
+      std::optional<std::string> text = shifted_cron(spec.at, minutes, false);
+      if (!text) return std::nullopt;
+      CronParse parsed = parse_cron(*text);
+      if (!parsed.value) return std::nullopt;
+      return Edit::runs(p.model, *parsed.value);
+    };
+    auto passes = [&](int64_t minutes) {
+      std::optional<Edit> edit = edit_of(minutes);
+      if (!edit || !edit_problem(plan, *edit).empty()) return false;
+      trial.set(*edit, minutes * 60);
       return passes_all();
     };
     // Less than a day, so that each run maps to one run of the edited plan.
-    std::optional<int64_t> size = minimal_size(passes, minutes_up(worst_late), std::min<int64_t>(kLaterStartSearch / 60, 24 * 60 - 1));
+    std::optional<int64_t> size =
+        minimal_size(passes, minutes_up(worst_late), std::min<int64_t>(kLaterStartSearch / 60, 24 * 60 - 1));
     if (size) {
       Fix fix;
       fix.kind = FixKind::start_later;
       fix.seconds = *size * 60;
       fix.later = true;
       fix.from_cron = spec.at.text;
-      edit.cron = *shifted_cron(spec.at, *size, spec.calendar >= 0);
-      fix.edit = edit;
+      fix.edit = *edit_of(*size);
       found.push_back(std::move(fix));
     }
   }
@@ -544,7 +645,8 @@ FixSearch FixFinder::find(const Pattern& p) const {
       const Instant w = p.blame.needs_data_through;
       std::optional<Instant> before = st.ev.ready(fix.node, w);
       std::optional<Instant> after = trial.ready(fix.node, w);
-      const Seconds run_time(fix.kind == FixKind::move_start ? node.run_time.seconds : 0);
+      const bool start = fix.kind == FixKind::move_start;
+      const Seconds run_time(start ? node.run_time.seconds : 0);
       if (before) fix.before = *before - run_time;
       if (after) fix.after = *after - run_time;
       if (fix.kind == FixKind::move_start && fix.later && !p.blame.steps.empty()) {
@@ -554,7 +656,9 @@ FixSearch FixFinder::find(const Pattern& p) const {
         }
       }
     }
-    const bool only_improves = fix.edit.kind == FixEdit::Kind::delay && fix.edit.seconds < 0;
+    // Landing earlier moves every E earlier or leaves it (E is monotone in
+    // each landing), so only runs that were not ok can change.
+    const bool only_improves = fix.edit.kind == EditKind::delay && fix.edit.seconds < 0;
     for (size_t m = 0; m < plan.models.size(); ++m) {
       const int mi = static_cast<int>(m);
       if (!trial.affects(mi)) continue;
@@ -585,6 +689,7 @@ FixSearch FixFinder::find(const Pattern& p) const {
     return !a.breaks_others() && b.breaks_others();
   });
   out.fixes = std::move(found);
+  reset_counts();
   return out;
 }
 

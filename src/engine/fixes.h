@@ -3,15 +3,18 @@
 // the plan that make every run of the pattern ok, each re-evaluated before it
 // is offered, minimal to the minute, with what else it changes.
 //
-// Kinds of fix, each one edit:
-// - land_earlier: `delay NODE=-D` — a source (or a recorded node) lands D
-//   earlier, or a job or feature finishes D sooner (D at most its run_time).
+// Kinds of fix, each one edit of engine/edit.h (so `what-if` takes it as is):
+// - land_earlier: a source lands D earlier — `delay NODE=-D` while its
+//   lands_after allows, else `schedule NODE=CRON` with its delivery schedule
+//   moved D earlier — or a job or feature finishes D sooner (`delay`, D at
+//   most its run_time).
 // - move_start: `schedule NODE=CRON` — a cron-triggered job or feature starts
-//   D later (after its input has landed) or D earlier (before its deadline);
-//   the new cron is the old one with every start moved by D, when that is
-//   expressible as one cron expression.
+//   D later (after its input has landed) or D earlier (before its deadline).
+// A moved schedule is the old one with every occurrence moved by D of local
+// time, when that is expressible as one cron expression (shifted_cron).
 // - start_later: `runs MODEL=CRON` — the model's runs start D later, D under
-//   a day (the model has one run specification that can be moved by D). Each
+//   a day (the model has one run specification, without a calendar, since
+//   the edit replaces the runs with one cron and no calendar). Each
 //   run of the pattern is checked at its moved time: its local time plus D
 //   (the next local date when that passes midnight), read by the RFC 5545 rule.
 //
@@ -34,32 +37,23 @@
 // Order of the fixes found: those that turn no other run worse first, then
 // the order of the candidates (the cause first, starting the runs later last).
 //
-// Re-evaluation is exact DESIGN §4 recursion on the edited plan: nodes
-// downstream of the edited one are recomputed per query, every other node's
-// E is read from the evaluation's profiles. It agrees with a fresh check of a
-// copy of the plan with the edit written in (tests/fixes_test.cpp compares it
-// with the literal reference on random plans).
+// Re-evaluation applies the edit to a working copy of the plan exactly as
+// apply_edits does, then evaluates by the DESIGN §4 recursion: nodes
+// downstream of the edited one are recomputed per query (a pattern has few
+// runs, and a profile rebuild would cover the whole window), every other
+// node's E is read from the evaluation's profiles. tests/fixes_test.cpp checks
+// it against reevaluate() of engine/edit.h and against the literal reference
+// on random plans.
 
 #include <memory>
 #include <optional>
 #include <string>
 #include <vector>
 
+#include "engine/edit.h"
 #include "engine/patterns.h"
 
 namespace readyby {
-
-/// A DESIGN §9 edit, as a fix uses it.
-struct FixEdit {
-  enum class Kind { delay, schedule, runs };
-  Kind kind = Kind::delay;
-  int node = -1;         ///< delay, schedule: node index
-  int model = -1;        ///< runs: model index
-  int64_t seconds = 0;   ///< delay: DUR in seconds (negative: earlier)
-  std::string cron;      ///< schedule, runs: the new cron expression
-};
-/// "delay" | "schedule" | "runs".
-const char* to_string(FixEdit::Kind k);
 
 enum class FixKind { land_earlier, move_start, start_later };
 /// "land-earlier" | "move-start" | "start-later".
@@ -73,7 +67,7 @@ struct RunChange {
 
 struct Fix {
   FixKind kind = FixKind::land_earlier;
-  FixEdit edit;
+  Edit edit;
   int node = -1;            ///< the step changed; -1 for start_later
   int64_t seconds = 0;      ///< size D (> 0, whole minutes), minimal to the minute
   bool later = false;       ///< move_start: the start moves later (else earlier)

@@ -70,6 +70,8 @@ PatternCollector::PatternCollector(const Plan& plan, const Evaluation& ev, const
   const size_t models = plan.models.size();
   summaries_.resize(models);
   runs_.resize(models);
+  folded_.resize(models);
+  folded_runs_.resize(models, {0, 0});
   records_.resize(models);
   model_zones_.resize(models);
   const Lineage lineage = Lineage::of(plan);
@@ -89,7 +91,8 @@ void PatternCollector::add(const RunResult& run) {
   ModelSummary& s = summaries_[m];
   ++s.runs;
   (run.status == RunStatus::ok ? s.ok : run.status == RunStatus::degraded ? s.degraded : s.failed)++;
-  std::vector<int> required, optional;
+  required_.clear();
+  optional_.clear();
   for (const FeatureResult& f : run.features) {
     if (f.ready_at) {
       auto& tightest = f.optional ? s.tightest_optional_seconds : s.tightest_required_seconds;
@@ -97,7 +100,7 @@ void PatternCollector::add(const RunResult& run) {
       if (!tightest || f.slack_seconds < *tightest) tightest = f.slack_seconds, at = run.at;
     }
     if (f.status == FeatureStatus::ok) continue;
-    (f.optional ? optional : required).push_back(f.feature);
+    (f.optional ? optional_ : required_).push_back(f.feature);
     if (f.optional && std::find(s.degraded_features.begin(), s.degraded_features.end(), f.feature) ==
                           s.degraded_features.end()) {
       s.degraded_features.push_back(f.feature);
@@ -106,10 +109,29 @@ void PatternCollector::add(const RunResult& run) {
   const uint32_t ordinal = static_cast<uint32_t>(runs_[m].size());
   runs_[m].push_back(run.at);
   if (run.status == RunStatus::ok) return;
-  std::vector<int>& signature = run.status == RunStatus::fail ? required : optional;
-  auto [it, inserted] = signature_index_.try_emplace(signature, static_cast<uint32_t>(signatures_.size()));
-  if (inserted) signatures_.push_back(signature);
-  records_[m].push_back({ordinal, it->second, run.status});
+  const std::vector<int>& signature = run.status == RunStatus::fail ? required_ : optional_;
+  auto it = signature_index_.find(signature);
+  if (it == signature_index_.end()) {
+    it = signature_index_.emplace(signature, static_cast<uint32_t>(signatures_.size())).first;
+    signatures_.push_back(signature);
+  }
+  // Fold the run's features into its model's totals for this status.
+  const size_t which = run.status == RunStatus::fail ? 0 : 1;
+  std::vector<PatternFeature>& folded = folded_[m][which];
+  if (folded.empty()) {
+    for (const FeatureResult& f : run.features) folded.push_back({f.feature, false, 0});
+  }
+  ++folded_runs_[m][which];
+  Record r{ordinal, it->second, INT64_MAX, -1, run.status, !optional_.empty()};
+  for (size_t k = 0; k < run.features.size(); ++k) {
+    const FeatureResult& f = run.features[k];
+    if (!relevant(f, run.status)) continue;
+    if (f.status == FeatureStatus::never) folded[k].never = true;
+    else folded[k].worst_late_seconds = std::max(folded[k].worst_late_seconds, -f.slack_seconds);
+    const int64_t slack = f.status == FeatureStatus::never ? INT64_MIN : f.slack_seconds;
+    if (r.worst_feature < 0 || slack < r.worst_slack) r.worst_slack = slack, r.worst_feature = f.feature;
+  }
+  records_[m].push_back(r);
 }
 
 std::vector<Pattern> PatternCollector::patterns() const {
@@ -337,32 +359,44 @@ void PatternCollector::group(int model, RunStatus status, std::vector<Pattern>* 
 
 void PatternCollector::complete(Pattern* p) const {
   const Model& model = plan_.models[static_cast<size_t>(p->model)];
-  std::vector<PatternFeature> features;
-  for (int f : model.features) features.push_back({f, false, 0});
-  std::vector<bool> seen(features.size(), false);
+  const size_t which = p->status == RunStatus::fail ? 0 : 1;
   int64_t worst = INT64_MAX;
   int worst_feature = -1;
   Instant worst_at = p->runs.front();
-  Instant worst_w = worst_at;
-  for (Instant at : p->runs) {
-    RunResult run = ev_.run_at(p->model, at);
-    for (size_t k = 0; k < run.features.size(); ++k) {
-      const FeatureResult& f = run.features[k];
-      if (!relevant(f, p->status)) continue;
-      seen[k] = true;
-      if (f.status == FeatureStatus::never) features[k].never = true;
-      else features[k].worst_late_seconds = std::max(features[k].worst_late_seconds, -f.slack_seconds);
-      int64_t slack = f.status == FeatureStatus::never ? INT64_MIN : f.slack_seconds;
-      if (worst_feature < 0 || slack < worst) {
-        worst = slack, worst_feature = f.feature, worst_at = at, worst_w = f.needs_data_through;
+  std::vector<PatternFeature> features;
+  const std::vector<Record>& records = records_[static_cast<size_t>(p->model)];
+  const std::vector<Instant>& all = runs_[static_cast<size_t>(p->model)];
+  if (p->runs.size() == folded_runs_[static_cast<size_t>(p->model)][which] && p->runs.size() > 1) {
+    // The pattern holds every such run of the model: the folded totals are its own.
+    features = folded_[static_cast<size_t>(p->model)][which];
+    for (const Record& r : records) {
+      if (r.status != p->status) continue;
+      if (worst_feature < 0 || r.worst_slack < worst) {
+        worst = r.worst_slack, worst_feature = r.worst_feature, worst_at = all[r.ordinal];
+      }
+    }
+  } else {
+    for (int f : model.features) features.push_back({f, false, 0});
+    for (Instant at : p->runs) {
+      RunResult run = ev_.run_at(p->model, at);
+      for (size_t k = 0; k < run.features.size(); ++k) {
+        const FeatureResult& f = run.features[k];
+        if (!relevant(f, p->status)) continue;
+        if (f.status == FeatureStatus::never) features[k].never = true;
+        else features[k].worst_late_seconds = std::max(features[k].worst_late_seconds, -f.slack_seconds);
+        const int64_t slack = f.status == FeatureStatus::never ? INT64_MIN : f.slack_seconds;
+        if (worst_feature < 0 || slack < worst) worst = slack, worst_feature = f.feature, worst_at = at;
       }
     }
   }
-  for (size_t k = 0; k < features.size(); ++k) {
-    if (seen[k]) p->features.push_back(features[k]);
+  for (const PatternFeature& f : features) {
+    if (f.never || f.worst_late_seconds > 0) p->features.push_back(f);
   }
   p->worst_run = worst_at;
-  if (worst_feature >= 0) p->blame = blame(plan_, ev_.engine(), worst_feature, worst_w, worst_at, monitored_);
+  if (worst_feature >= 0) {
+    const Instant w = worst_at - Seconds(plan_.nodes[static_cast<size_t>(worst_feature)].max_age.seconds);
+    p->blame = blame(plan_, ev_.engine(), worst_feature, w, worst_at, monitored_);
+  }
 }
 
 Pattern PatternCollector::single_run(int model, Instant at, RunStatus status) const {

@@ -34,6 +34,7 @@
 // engine/fixes.h. Pure computation; the writers make the sentences.
 
 #include <cstdint>
+#include <array>
 #include <map>
 #include <optional>
 #include <vector>
@@ -127,7 +128,10 @@ class PatternCollector {
   struct Record {
     uint32_t ordinal;        ///< position among the model's runs
     uint32_t signature;      ///< index into signatures()
+    int64_t worst_slack;     ///< of its worst feature in the signature; INT64_MIN when never
+    int32_t worst_feature;   ///< node index
     RunStatus status;
+    bool optional_bad;       ///< some optional feature is not ok (a failing run that is also degraded)
   };
   const std::vector<Record>& records(int model) const { return records_[static_cast<size_t>(model)]; }
   const std::vector<std::vector<int>>& signatures() const { return signatures_; }
@@ -154,6 +158,12 @@ class PatternCollector {
   std::vector<std::vector<Record>> records_;
   std::vector<std::vector<int>> signatures_;
   std::map<std::vector<int>, uint32_t> signature_index_;
+  // Per model and status (0 fail, 1 degraded): every record's features folded
+  // together, in the model's feature order; a pattern holding all of them
+  // needs no second look at its runs.
+  std::vector<std::array<std::vector<PatternFeature>, 2>> folded_;
+  std::vector<std::array<size_t, 2>> folded_runs_;
+  std::vector<int> required_, optional_;  // scratch
   std::vector<std::vector<const Zone*>> model_zones_;   // zones that time each model's data
 };
 

@@ -58,9 +58,6 @@ std::string clock_on(Instant t, const Zone* zone, LocalDays day) {
   return local_day(t, zone) == day ? full.substr(11) : full;
 }
 
-std::string signed_duration(int64_t seconds) {
-  return (seconds < 0 ? "-" : "") + format_duration(Duration{seconds < 0 ? -seconds : seconds});
-}
 
 std::string describe_changes(const std::vector<ZoneChange>& changes) {
   // Group the changes by (local date of the change, jump).
@@ -151,9 +148,10 @@ std::string describe_cause(const Plan& plan, const Blame& b, const Zone* zone) {
   switch (b.kind) {
     case CauseKind::none: return "";
     case CauseKind::never:
+      if (s.recorded) return what(plan, s.node) + " has not landed with data through " + at(b.needs_data_through);
       return what(plan, s.node) + " never lands with data through " + at(b.needs_data_through) +
-             (node.kind == NodeKind::source ? " (no qualifying delivery within 1,462 days, or none recorded)"
-                                            : " (its schedule has no qualifying start within 1,462 days)");
+             (node.kind == NodeKind::source ? " (no qualifying delivery within 1,462 days)"
+                                            : " (no qualifying start within 1,462 days)");
     case CauseKind::late_delivery:
       return what(plan, s.node) + " lands at " + at(*s.ready) + gap("delivery") + ", " +
              human_duration(s.own_late_seconds) + " after the latest landing that keeps the run on time (" +
@@ -189,18 +187,6 @@ std::string describe_cause(const Plan& plan, const Blame& b, const Zone* zone) {
   return "";
 }
 
-std::string edit_text(const Plan& plan, const FixEdit& edit) {
-  switch (edit.kind) {
-    case FixEdit::Kind::delay:
-      return "delay " + plan.nodes[static_cast<size_t>(edit.node)].id + "=" + signed_duration(edit.seconds);
-    case FixEdit::Kind::schedule:
-      return "schedule " + plan.nodes[static_cast<size_t>(edit.node)].id + "=\"" + edit.cron + "\"";
-    case FixEdit::Kind::runs:
-      return "runs " + plan.models[static_cast<size_t>(edit.model)].id + "=\"" + edit.cron + "\"";
-  }
-  return "";
-}
-
 std::string describe_fix(const Plan& plan, const Pattern& p, const Fix& fix) {
   const Model& model = plan.models[static_cast<size_t>(p.model)];
   const LocalDays day = local_day(p.worst_run, model.zone);
@@ -216,16 +202,20 @@ std::string describe_fix(const Plan& plan, const Pattern& p, const Fix& fix) {
                format_duration(n.run_time) + " -> " + format_duration(Duration{n.run_time.seconds - fix.seconds}) +
                "): by " + at(fix.after) + " instead of " + at(fix.before) + on_worst + edit;
       }
+      std::string how;
+      if (fix.edit.kind == EditKind::schedule) {
+        how = ": deliver on \"" + fix.edit.cron->text + "\" instead of \"" + fix.from_cron + "\"";
+      }
       return what(plan, fix.node) + " would have to land by " + at(fix.after) + " instead of " + at(fix.before) +
-             " (" + size + " earlier)" + on_worst + edit;
+             " (" + size + " earlier)" + on_worst + how + edit;
     }
     case FixKind::move_start:
       return what(plan, fix.node) + " would have to start " + size + (fix.later ? " later" : " earlier") + " (\"" +
-             fix.from_cron + "\" -> \"" + fix.edit.cron + "\"): at " + at(fix.after) + " instead of " +
+             fix.from_cron + "\" -> \"" + fix.edit.cron->text + "\"): at " + at(fix.after) + " instead of " +
              at(fix.before) + on_worst + edit;
     case FixKind::start_later:
       return "start the runs of '" + model.id + "' " + size + " later (\"" + fix.from_cron + "\" -> \"" +
-             fix.edit.cron + "\")" + edit;
+             fix.edit.cron->text + "\")" + edit;
   }
   return "";
 }
@@ -257,7 +247,7 @@ std::string describe_effect(const Plan& plan, const Fix& fix) {
 
 std::string describe_no_fix(const Plan& plan, const Pattern& p, const FixSearch& search) {
   if (search.never) {
-    return "no timing edit helps: " + describe_cause(plan, p.blame, plan.models[static_cast<size_t>(p.model)].zone);
+    return "no change of timing helps: " + describe_cause(plan, p.blame, plan.models[static_cast<size_t>(p.model)].zone);
   }
   if (search.causes_apart) {
     return "no single edit clears every run of this pattern: its features are late through different steps, "

@@ -35,7 +35,8 @@ std::string describe_changes(const std::vector<ZoneChange>& changes);
 std::string describe_cause(const Plan& plan, const Blame& b, const Zone* zone);
 
 /// What a fix changes, in words and as the edit:
-/// "'bed_board' lands 50m earlier: 06:30 instead of 07:20 (delay bed_board=-PT50M)".
+/// "'bed_board' would have to land by 06:30 instead of 07:20 (50m earlier)
+/// [delay bed_board=-PT50M]" (the edit as edit_text of engine/edit.h writes it).
 std::string describe_fix(const Plan& plan, const Pattern& p, const Fix& fix);
 
 /// The re-check of a fix: "re-checked: all 4 runs of this pattern ok; no
@@ -45,12 +46,5 @@ std::string describe_effect(const Plan& plan, const Fix& fix);
 
 /// Why no fix is shown: "no single edit clears every run of this pattern: ...".
 std::string describe_no_fix(const Plan& plan, const Pattern& p, const FixSearch& search);
-
-/// The edit as `what-if` would take it: "delay bed_board=-PT50M",
-/// "schedule hie_merge=\"30 3 * * *\"", "runs discharge_delay=\"20 7 * * *\"".
-std::string edit_text(const Plan& plan, const FixEdit& edit);
-
-/// Signed ISO 8601 duration: "PT50M", "-PT50M".
-std::string signed_duration(int64_t seconds);
 
 }  // namespace readyby

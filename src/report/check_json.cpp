@@ -1,5 +1,8 @@
 #include "report/check_json.h"
 
+#include <algorithm>
+#include <climits>
+
 #include "engine/fixes.h"
 #include "engine/patterns.h"
 #include "report/advice_text.h"
@@ -36,6 +39,90 @@ class BlockWriter {
   std::string buffer_;
 };
 
+// RFC 3339 with the zone's offset, as format_rfc3339 writes it, without
+// printf: a year's check writes tens of millions of these.
+void append_rfc3339(std::string* out, Instant t, const Zone* zone) {
+  const int64_t off = zone->offset_at(t).count();
+  const int64_t local = to_unix(t) + off;
+  const int64_t days = local >= 0 ? local / kSecondsPerDay : -((-local + kSecondsPerDay - 1) / kSecondsPerDay);
+  const int64_t secs = local - days * kSecondsPerDay;
+  const date::year_month_day ymd{date::sys_days{date::days{days}}};
+  char buf[32];
+  auto two = [&](int at, int64_t v) {
+    buf[at] = static_cast<char>('0' + v / 10);
+    buf[at + 1] = static_cast<char>('0' + v % 10);
+  };
+  const int year = static_cast<int>(ymd.year());
+  if (year < 0 || year > 9999) {
+    *out += format_rfc3339(t, zone);
+    return;
+  }
+  two(0, year / 100);
+  two(2, year % 100);
+  buf[4] = '-';
+  two(5, static_cast<unsigned>(ymd.month()));
+  buf[7] = '-';
+  two(8, static_cast<unsigned>(ymd.day()));
+  buf[10] = 'T';
+  two(11, secs / 3600);
+  buf[13] = ':';
+  two(14, secs / 60 % 60);
+  buf[16] = ':';
+  two(17, secs % 60);
+  const int64_t a = off < 0 ? -off : off;
+  buf[19] = off < 0 ? '-' : '+';
+  two(20, a / 3600);
+  buf[22] = ':';
+  two(23, a % 3600 / 60);
+  out->append(buf, 25);
+}
+
+// The chain of each feature as JSON text, kept with the range of w over
+// which every step's piece (hence every deciding input) stays the same:
+// runs of a model come in time order, so consecutive runs mostly reuse it.
+class ChainCache {
+ public:
+  ChainCache(const Plan& plan, const FreshnessEngine& engine, const std::vector<std::string>& quoted)
+      : plan_(plan), engine_(engine), quoted_(quoted), cache_(plan.nodes.size()) {}
+
+  const std::string& text(int feature, int64_t w) {
+    Entry& e = cache_[static_cast<size_t>(feature)];
+    if (w > e.lo && w <= e.hi) return e.text;
+    e.lo = INT64_MIN;
+    e.hi = INT64_MAX;
+    nodes_.clear();
+    int n = feature;
+    while (true) {
+      nodes_.push_back(n);
+      const std::vector<ProfilePiece>& pieces = engine_.profile(n).pieces();
+      auto it = std::lower_bound(pieces.begin(), pieces.end(), w,
+                                 [](const ProfilePiece& p, int64_t x) { return p.upto < x; });
+      if (it == pieces.end()) it = pieces.end() - 1;
+      else e.hi = std::min(e.hi, it->upto);
+      if (it != pieces.begin()) e.lo = std::max(e.lo, (it - 1)->upto);
+      if (it->via < 0) break;
+      n = plan_.nodes[static_cast<size_t>(n)].inputs[static_cast<size_t>(it->via)];
+    }
+    e.text.clear();
+    for (size_t i = nodes_.size(); i-- > 0;) {
+      e.text += quoted_[static_cast<size_t>(nodes_[i])];
+      if (i) e.text += ", ";
+    }
+    return e.text;
+  }
+
+ private:
+  struct Entry {
+    int64_t lo = 1, hi = 0;  // empty
+    std::string text;
+  };
+  const Plan& plan_;
+  const FreshnessEngine& engine_;
+  const std::vector<std::string>& quoted_;
+  std::vector<Entry> cache_;
+  std::vector<int> nodes_;
+};
+
 std::string json_time(const std::optional<Instant>& t, const Zone* zone) {
   return t ? "\"" + format_rfc3339(*t, zone) + "\"" : std::string("null");
 }
@@ -52,12 +139,12 @@ std::string changes_json(const std::vector<ZoneChange>& changes, const char* rol
   return out;
 }
 
-std::string edit_json(const Plan& plan, const FixEdit& e) {
+std::string edit_json(const Plan& plan, const Edit& e) {
   std::string out = "{\"kind\": \"" + std::string(to_string(e.kind)) + "\"";
-  if (e.kind == FixEdit::Kind::runs) out += ", \"model\": " + json_quote(plan.models[static_cast<size_t>(e.model)].id);
-  else out += ", \"node\": " + json_quote(plan.nodes[static_cast<size_t>(e.node)].id);
-  if (e.kind == FixEdit::Kind::delay) out += ", \"seconds\": " + std::to_string(e.seconds);
-  else out += ", \"cron\": " + json_quote(e.cron);
+  if (e.kind == EditKind::runs) out += ", \"model\": " + json_quote(plan.models[static_cast<size_t>(e.target)].id);
+  else out += ", \"node\": " + json_quote(plan.nodes[static_cast<size_t>(e.target)].id);
+  if (e.kind == EditKind::delay) out += ", \"seconds\": " + std::to_string(e.seconds);
+  else if (e.cron) out += ", \"cron\": " + json_quote(e.cron->text);
   return out + ", \"text\": " + json_quote(edit_text(plan, e)) + "}";
 }
 
@@ -182,6 +269,10 @@ void write_check_json(std::ostream& stream, const Plan& plan, const Evaluation& 
       << ", \"from\": " << json_quote(format_date(ev.from)) << ", \"days\": " << ev.days
       << ",\n \"ok\": " << (ev.ok() ? "true" : "false") << ",\n \"runs\": [";
   bool first_run = true;
+  std::vector<std::string> model_ids;
+  for (const Model& m : plan.models) model_ids.push_back(json_quote(m.id));
+  ChainCache chains(plan, ev.engine(), quoted);
+  std::string piece;  // one run's text
   // Stored runs, or (for a lazy evaluation) each run computed as it is written.
   const size_t run_count = ev.runs.empty() ? ev.pending_count() : ev.runs.size();
   for (size_t r = 0; r < run_count; ++r) {
@@ -190,31 +281,42 @@ void write_check_json(std::ostream& stream, const Plan& plan, const Evaluation& 
     const RunResult& run = ev.runs.empty() ? computed : ev.runs[r];
     collector.add(run);
     const Model& model = plan.models[static_cast<size_t>(run.model)];
-    out << (first_run ? "\n  " : ",\n  ");
+    piece.clear();
+    piece += first_run ? "\n  " : ",\n  ";
     first_run = false;
-    out << "{\"model\": " << json_quote(model.id) << ", \"at\": \"" << format_rfc3339(run.at, model.zone)
-        << "\", \"status\": \"" << to_string(run.status) << "\",\n   \"features\": [";
+    piece += "{\"model\": ";
+    piece += model_ids[static_cast<size_t>(run.model)];
+    piece += ", \"at\": \"";
+    append_rfc3339(&piece, run.at, model.zone);
+    piece += "\", \"status\": \"";
+    piece += to_string(run.status);
+    piece += "\",\n   \"features\": [";
     bool first_feature = true;
     for (const FeatureResult& f : run.features) {
-      out << (first_feature ? "\n    " : ",\n    ");
+      piece += first_feature ? "\n    " : ",\n    ";
       first_feature = false;
-      out << "{\"feature\": " << quoted[static_cast<size_t>(f.feature)]
-          << ", \"optional\": " << (f.optional ? "true" : "false") << ", \"needs_data_through\": \""
-          << format_rfc3339(f.needs_data_through, model.zone) << "\", \"ready_at\": ";
+      piece += "{\"feature\": ";
+      piece += quoted[static_cast<size_t>(f.feature)];
+      piece += f.optional ? ", \"optional\": true" : ", \"optional\": false";
+      piece += ", \"needs_data_through\": \"";
+      append_rfc3339(&piece, f.needs_data_through, model.zone);
+      piece += "\", \"ready_at\": ";
       if (f.ready_at) {
-        out << '"' << format_rfc3339(*f.ready_at, model.zone) << "\", \"slack_seconds\": " << f.slack_seconds;
+        piece += '"';
+        append_rfc3339(&piece, *f.ready_at, model.zone);
+        piece += "\", \"slack_seconds\": ";
+        piece += std::to_string(f.slack_seconds);
       } else {
-        out << "null, \"slack_seconds\": null";
+        piece += "null, \"slack_seconds\": null";
       }
-      out << ", \"status\": \"" << to_string(f.status) << "\", \"chain\": [";
-      bool first_node = true;
-      for (int n : ev.chain(f)) {
-        out << (first_node ? "" : ", ") << quoted[static_cast<size_t>(n)];
-        first_node = false;
-      }
-      out << "]}";
+      piece += ", \"status\": \"";
+      piece += to_string(f.status);
+      piece += "\", \"chain\": [";
+      piece += chains.text(f.feature, to_unix(f.needs_data_through));
+      piece += "]}";
     }
-    out << "]}";
+    piece += "]}";
+    out << piece;
   }
   out << "],\n \"findings\": [";
   bool first_finding = true;

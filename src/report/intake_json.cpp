@@ -24,6 +24,7 @@ std::string timing_json(const IntakeReport& r) {
                     ", \"failed\": " + std::to_string(t.failed) +
                     ", \"tightest_slack_seconds\": " + json_optional(t.tightest_slack_seconds) +
                     ", \"tightest_at\": " + (t.tightest_at ? json_quote(format_rfc3339(*t.tightest_at, zone)) : "null") +
+                    ", \"tightest_optional_slack_seconds\": " + json_optional(t.tightest_optional_seconds) +
                     ", \"degraded_features\": " + json_list(t.degraded_features) + ",\n  \"patterns\": [";
   for (size_t i = 0; i < t.patterns.size(); ++i) {
     const TimingPattern& p = t.patterns[i];

@@ -6,7 +6,8 @@
 // JSON keys (stable; more may be added): proposal, title, plan, model,
 // timezone, from, days, timing {verdict (on-time | at-risk | infeasible),
 // runs, ok, degraded, failed, tightest_slack_seconds (null when no run),
-// tightest_at, degraded_features[], patterns[] {description, status (fail |
+// tightest_at, tightest_optional_slack_seconds (null when no optional feature
+// became ready), degraded_features[], patterns[] {description, status (fail |
 // degraded), runs, failing_features[], chain[], fix, start_later, cheapest,
 // cause, no_fix}}, reuse (the
 // `reuse --format json` object), feasibility[] {id, name, coverage, in_house,
@@ -16,9 +17,10 @@
 // worst_late_seconds, never}, missing[], late[], unstructured[]},
 // recommendation {decision (reuse-and-validate | fix-data-plan-first |
 // close-gaps-or-build | build), summary, candidate, cheapest_fix, reasons[]},
-// cautions[], forecast (null without --db). A fix is {kind (land-earlier | move-start | start-later), node,
-// seconds, text, edit, effect, breaks_others}; every fix shown was re-checked
-// and clears every run of its pattern. Times are RFC 3339 in the model's zone.
+// cautions[], forecast (null without --db). A fix is {kind (land-earlier |
+// move-start | start-later), node, seconds, text, edit, effect,
+// breaks_others}; every fix shown was re-checked and clears every run of its
+// pattern. Times are RFC 3339 in the model's zone.
 
 #include <string>
 

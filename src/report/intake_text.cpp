@@ -44,6 +44,9 @@ void timing_section(const IntakeReport& r, std::string* out) {
     *out += "; tightest slack " + human_duration(*t.tightest_slack_seconds) + " (" +
             format_local(zone->to_local(*t.tightest_at)) + ")";
   }
+  if (t.tightest_optional_seconds) {
+    *out += "; optional features: tightest slack " + human_duration(*t.tightest_optional_seconds);
+  }
   *out += "\n";
   if (!t.degraded_features.empty()) {
     *out += "  degraded: optional " + join(t.degraded_features, ", ") + " not always fresh\n";

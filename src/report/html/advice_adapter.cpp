@@ -4,6 +4,7 @@
 
 #include "engine/blame.h"
 #include "engine/fixes.h"
+#include "engine/margins.h"
 #include "engine/patterns.h"
 #include "report/advice_text.h"
 
@@ -80,27 +81,6 @@ PatternFacts from_pattern(const Plan& plan, const Evaluation& ev, const RunIndex
   return f;
 }
 
-void margins(const Plan& plan, const Evaluation& ev, const std::vector<bool>& mask, std::vector<NodeMargin>* out) {
-  out->assign(plan.nodes.size(), NodeMargin{});
-  for (const RunResult& run : ev.runs) {
-    if (run.status != RunStatus::ok) continue;
-    for (const FeatureResult& f : run.features) {
-      if (!mask[static_cast<size_t>(f.feature)]) continue;
-      Blame b = blame(plan, ev.engine(), f.feature, f.needs_data_through, run.at);
-      for (const BlameStep& s : b.steps) {
-        if (!mask[static_cast<size_t>(s.node)] || !s.ready || !s.latest) continue;
-        int64_t headroom = (*s.latest - *s.ready).count();
-        NodeMargin& m = (*out)[static_cast<size_t>(s.node)];
-        if (!m.margin_seconds || headroom < *m.margin_seconds) {
-          m.margin_seconds = headroom;
-          m.binding_model = run.model;
-          m.binding_at = run.at;
-        }
-      }
-    }
-  }
-}
-
 }  // namespace
 
 ExplainedRun explain_for_timeline(const Plan& plan, const Evaluation& ev, size_t run_index, size_t feature_pos) {
@@ -109,7 +89,7 @@ ExplainedRun explain_for_timeline(const Plan& plan, const Evaluation& ev, size_t
   return from_blame(plan, ev, run_index, blame(plan, ev.engine(), f.feature, f.needs_data_through, run.at));
 }
 
-AdviceFacts gather_advice(const Plan& plan, const Evaluation& ev, const std::vector<bool>* margins_for) {
+AdviceFacts gather_advice(const Plan& plan, const Evaluation& ev, bool with_margins) {
   AdviceFacts facts;
   PatternCollector collector(plan, ev);
   collect_runs(ev, &collector);
@@ -117,7 +97,20 @@ AdviceFacts gather_advice(const Plan& plan, const Evaluation& ev, const std::vec
   FixFinder finder(collector);
   RunIndex index(plan, ev);
   for (const Pattern& p : patterns) facts.patterns.push_back(from_pattern(plan, ev, index, p, finder.find(p)));
-  if (margins_for) margins(plan, ev, *margins_for, &facts.margins);
+  if (with_margins) {
+    // The backward pass alone: exact by construction (engine/margins.h); the
+    // re-evaluation checks that `readyby margins` adds cost a cone
+    // re-evaluation per node, too slow for a page of a large plan.
+    for (const Margin& m : margins(plan, ev, MarginOptions{MarginOptions::Check::none})) {
+      NodeMargin nm;
+      nm.margin_seconds = m.seconds;
+      if (m.seconds) {
+        nm.binding_model = m.binding_model;
+        nm.binding_at = m.binding_at;
+      }
+      facts.margins.push_back(nm);
+    }
+  }
   return facts;
 }
 

@@ -11,10 +11,11 @@
 // - fixes: engine/fixes.h (FixFinder): each fix has been re-evaluated over
 //   the window (every run of its pattern clears; the other runs it changes
 //   are listed); the sentences come from report/advice_text.h;
-// - margins: the smallest headroom (latest on-time landing minus landing,
-//   from the blame of each feature of every ok run) of the node, with the
-//   run that binds it. On a chain that decides a run this is DESIGN §9's
-//   margin; a node on no deciding chain has no margin here (nullopt).
+// - margins: engine/margins.h (DESIGN §9): how much later every landing of
+//   the node could happen without an ok run degrading or failing, whole
+//   minutes, with the run that binds it; from its exact backward pass (the
+//   per-node re-evaluation checks of `readyby margins` are left out: they
+//   cost a cone re-evaluation per node).
 // Pure computation over an Evaluation: no I/O.
 
 #include <optional>
@@ -68,7 +69,7 @@ struct PatternFacts {
 };
 
 struct NodeMargin {
-  std::optional<int64_t> margin_seconds;  // nullopt: on no chain deciding an ok run
+  std::optional<int64_t> margin_seconds;  // nullopt: unbounded (no ok run depends on the node)
   int binding_model = -1;                 // the run that binds it
   std::optional<Instant> binding_at;
 };
@@ -78,9 +79,10 @@ struct AdviceFacts {
   std::vector<NodeMargin> margins;     // by node index (empty when not asked for)
 };
 
-/// Patterns of every model in `ev` (runs must be filled, not lazy). With
-/// `margins_for` (a mask over plan.nodes), margins of those nodes too.
-AdviceFacts gather_advice(const Plan& plan, const Evaluation& ev, const std::vector<bool>* margins_for);
+/// Patterns of every model in `ev` (runs must be filled, not lazy, and
+/// evaluated without recorded deliveries); with `with_margins`, every node's
+/// margin too.
+AdviceFacts gather_advice(const Plan& plan, const Evaluation& ev, bool with_margins);
 
 /// The explanation of feature `feature_pos` (position in run.features) of
 /// run `run_index`, with its cause step marked.

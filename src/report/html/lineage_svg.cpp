@@ -26,7 +26,7 @@ int collect_error(char* message) {
 char* c(const char* s) { return const_cast<char*>(s); }
 
 std::string margin_words(const NodeMargin& m) {
-  if (!m.margin_seconds) return "not deciding";
+  if (!m.margin_seconds) return "margin unbounded";
   return *m.margin_seconds >= 0 ? "margin " + human_duration(*m.margin_seconds)
                                 : "over by " + human_duration(-*m.margin_seconds);
 }
@@ -212,7 +212,7 @@ void LineageDrawer::write(std::string& out, const PageFacts& page, const ModelFa
            esc(counts) + ". It is larger than " + std::to_string(kMaxDrawnCone) +
            " nodes, so it is summarised: the table lists the " + std::to_string(kSummaryRows) +
            " nodes most at risk (on a failing run's chain first, then on a degraded one's, then on the most late "
-           "chains). Margins are computed for drawn cones only.</figcaption>";
+           "chains, then the smallest margin).</figcaption>";
     std::vector<ConeNode> ranked = cone.nodes;
     size_t rows = std::min(kSummaryRows, ranked.size());
     std::partial_sort(ranked.begin(), ranked.begin() + static_cast<std::ptrdiff_t>(rows), ranked.end(), at_risk_before);
@@ -258,8 +258,8 @@ void LineageDrawer::write(std::string& out, const PageFacts& page, const ModelFa
   }
   out += "<figcaption id=\"" + caption_id + "\">Upstream lineage of " + esc(model.id) + ", " + esc(counts) +
          ". Capsules are sources, boxes jobs, cut-corner boxes features; each node shows the worst status of the runs "
-         "whose late chain passes through it and how much later it could land before an ok run suffers (\u201cnot "
-         "deciding\u201d: it decides the timing of no ok run in the window).</figcaption>";
+         "whose late chain passes through it and how much later it could land before an ok run suffers (DESIGN §9 "
+         "margin, whole minutes).</figcaption>";
   write_node_table(out, plan, cone.nodes, "The lineage as a table", false);
   out += "</figure>";
 }

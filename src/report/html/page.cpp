@@ -1,5 +1,7 @@
 #include "report/html/page.h"
 
+#include <filesystem>
+
 #include "report/html/calendar.h"
 #include "report/html/history_charts.h"
 #include "report/html/intake_section.h"
@@ -237,7 +239,7 @@ std::string render_page(const PageFacts& facts) {
          "<meta name=\"color-scheme\" content=\"light dark\"><title>" +
          esc(title) + "</title><style>" + page_css() + "</style></head><body>" + kDefs + status_symbols() + "</defs></svg><main><header><h1>" +
          esc(plan.title.empty() ? plan.id : plan.title) + "</h1><p class=\"soft\">Plan <code>" + esc(plan.id) +
-         "</code> (" + esc(plan.path) + "), zone " + esc(plan.zone->name()) + "; runs with local dates from " +
+         "</code> (file " + esc(std::filesystem::path(plan.path).filename().string()) + "), zone " + esc(plan.zone->name()) + "; runs with local dates from " +
          format_date(ev.from) + " to " + format_date(last) + " (" + std::to_string(ev.days) +
          " days). Written by readyby.</p>";
   summary_table(out, facts);

@@ -141,15 +141,9 @@ PageFacts gather_page_facts(const Plan& plan, const Evaluation& ev) {
   PageFacts page;
   page.plan = &plan;
   page.evaluation = &ev;
-  // Cones first: margins are computed for the nodes of the cones that are drawn.
   std::vector<std::vector<bool>> masks;
-  std::vector<bool> drawn(plan.nodes.size(), false);
-  for (const Model& model : plan.models) {
-    masks.push_back(ev.lineage_->upstream_mask(model.features));
-    if (static_cast<size_t>(std::count(masks.back().begin(), masks.back().end(), true)) > kMaxDrawnCone) continue;
-    for (size_t n = 0; n < drawn.size(); ++n) drawn[n] = drawn[n] || masks.back()[n];
-  }
-  page.advice = gather_advice(plan, ev, &drawn);
+  for (const Model& model : plan.models) masks.push_back(ev.lineage_->upstream_mask(model.features));
+  page.advice = gather_advice(plan, ev, true);
   NodeRisk risk = node_risk(plan, ev);
   std::vector<int> order = ev.lineage_->topological_order();
   for (size_t m = 0; m < plan.models.size(); ++m) {

@@ -15,9 +15,9 @@
 //   whose not-fresh feature's chain passes through the node — fail for a
 //   required feature, degraded for an optional one; ok when no such run.
 // - A cone is drawn when it holds at most kMaxDrawnCone nodes; a larger one is
-//   summarised (counts by kind and status, and the nodes on the most late
-//   chains). Margins are computed for the nodes of drawn cones only: they
-//   cost a chain explanation per feature of every ok run.
+//   summarised (counts by kind and status, and the nodes most at risk:
+//   failing, then degraded, then on the most late chains, then the smallest
+//   margins).
 
 #include <optional>
 #include <string>
@@ -48,7 +48,7 @@ struct ConeNode {
   int node = -1;
   RunStatus status = RunStatus::ok;
   size_t late_chains = 0; // chains of not-fresh features (one per run and feature) through the node
-  NodeMargin margin;      // computed for the nodes of drawn cones only
+  NodeMargin margin;
 };
 
 struct ConeFacts {
