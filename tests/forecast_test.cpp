@@ -396,3 +396,60 @@ models:
   std::vector<TargetForecast> other = forecast_targets(plan, models, {model_target(plan, 0, local_day(90), 21)}, options);
   CHECK(other[0].run_probability != results[0][0].run_probability);
 }
+
+TEST_CASE("per-weekday landing models and whole-day draws") {
+  // Two feeds whose offsets are equal every day (perfectly correlated): 0..60
+  // minutes, each offset once per weekday group. Independent draws give
+  // P(both <= t) = F(t)^2; whole-day draws, which keep a recorded day's
+  // landings together, give F(t).
+  Plan plan = readyby::testing::plan_from_text(R"(plan: together
+title: Two feeds late together (fictional)
+timezone: Etc/UTC
+sources:
+  feed_a: {schedule: "0 1 * * *", lands_after: PT30M, data_lag: PT1H}
+  feed_b: {schedule: "0 1 * * *", lands_after: PT30M, data_lag: PT1H}
+features:
+  both: {inputs: [feed_a, feed_b], max_age: PT3H}
+models:
+  m:
+    features: [both]
+    runs: [{at: "30 1 * * *"}]
+)");
+  History history(plan.nodes.size());
+  history[0] = daily_rows(kGridDays, 1, 0, [](int d) { return (d * 29) % 61; });
+  history[1] = daily_rows(kGridDays, 1, 0, [](int d) { return (d * 29) % 61; });
+  const Instant start = window_start(plan, local_day(kGridDays));
+  LandingModels models = fit_landing_models(plan, history, start, start);
+  const int draws = 2000, days = 28;
+  ForecastOptions options = quick(draws);
+  const double f = grid_cdf(30);
+  struct Case {
+    DrawMode mode;
+    double exact;
+  };
+  for (const Case& c : {Case{DrawMode::independent, f * f}, Case{DrawMode::whole_days, f}}) {
+    options.mode = c.mode;
+    std::vector<TargetForecast> r =
+        forecast_targets(plan, models, {model_target(plan, 0, local_day(kGridDays), days)}, options);
+    const double se = std::sqrt(c.exact * (1 - c.exact) / (draws * days));
+    INFO((c.mode == DrawMode::independent ? "independent" : "whole days") << ": forecast " << r[0].probability
+                                                                          << ", exact " << c.exact);
+    CHECK(std::abs(r[0].probability - c.exact) <= 4 * se);
+  }
+
+  // A feed 10 minutes late on Mondays and 50 on other days, eight weeks of
+  // it: by weekday, the 01:30 run is on time on Mondays only.
+  History weekly(plan.nodes.size());
+  weekly[0] = daily_rows(56, 1, 0, [](int d) { return d % 7 == 0 ? 10 : 50; });  // day 0 is a Monday
+  weekly[1] = daily_rows(56, 1, 0, [](int) { return 0; });
+  const Instant weekly_start = window_start(plan, local_day(56));
+  LandingModels by_day = fit_landing_models(plan, weekly, weekly_start, weekly_start);
+  REQUIRE(by_day.models[0].by_weekday);
+  options.mode = DrawMode::independent;
+  std::vector<TargetForecast> r = forecast_targets(plan, by_day, {model_target(plan, 0, local_day(56), 14)}, options);
+  for (size_t k = 0; k < r[0].run_probability.size(); ++k) {
+    INFO("run " << k);
+    CHECK(r[0].run_probability[k] == (k % 7 == 0 ? 1.0 : 0.0));
+  }
+  CHECK(r[0].probability == Approx(2.0 / 14));
+}

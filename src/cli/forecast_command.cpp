@@ -66,7 +66,7 @@ std::string parse_forecast_args(const std::vector<std::string>& args, ForecastCl
                take_format(args, &i, {"text", "json"}, &o->format, &error)) {
       if (!error.empty()) return error;
     } else if (a.starts_with("-")) {
-      return "unknown option '" + a + "'";
+      return unknown_option(a, command_named("forecast").usage);
     } else if (o->plan_path.empty()) {
       o->plan_path = a;
     } else {

@@ -178,8 +178,12 @@ BacktestReport backtest(const Plan& plan, const History& history, LocalDays from
       run.at = targets[m].runs[k];
       run.forecast = independent[m].run_probability[k];
       run.whole_days = whole_days[m].run_probability[k];
-      run.declared_ok = declared_ok.at({run.model, to_unix(run.at)});
-      run.observed_ok = observed_ok.at({run.model, to_unix(run.at)});
+      // Both evaluations list exactly these runs (run_instants); a run missing
+      // from either would be a bug, and is then counted as not on time.
+      auto declared = declared_ok.find({run.model, to_unix(run.at)});
+      auto observed_run = observed_ok.find({run.model, to_unix(run.at)});
+      run.declared_ok = declared != declared_ok.end() && declared->second;
+      run.observed_ok = observed_run != observed_ok.end() && observed_run->second;
       report.runs.push_back(run);
       mf.push_back(run.forecast);
       mw.push_back(run.whole_days);

@@ -36,7 +36,13 @@ struct DrawEngine::DrawnNode {
 };
 
 namespace {
-struct SweepCursor;
+
+// One input's position in a merge sweep.
+struct SweepCursor {
+  const DrawEngine::Piece* at;
+  const DrawEngine::Piece* last;  // the final piece (upto kForever)
+};
+
 }  // namespace
 
 struct DrawEngine::Scratch {
@@ -314,12 +320,6 @@ void observed_profile(int n, const std::vector<DrawEngine::Occurrence>& occurren
   }
   for (size_t i = reversed.size(); i-- > 0;) push(p, reversed[i]);
 }
-
-// One input's position in a merge sweep.
-struct SweepCursor {
-  const Piece* at;
-  const Piece* last;  // the final piece (upto kForever)
-};
 
 // The first piece at or after `from` that reaches `w` (galloping, then binary
 // search); the final piece reaches every w.

@@ -32,7 +32,8 @@ std::string intake_json(const IntakeReport& report);
 
 /// The forecast section of each format (report/intake_forecast.cpp): empty
 /// (JSON: `null`) when the report has no forecast. JSON keys: draws, seed,
-/// model {runs, probability, interval, most_often_late}, candidates[] {id,
+/// unit (days | runs: what the shares are of), model {runs, probability,
+/// interval, most_often_late}, candidates[] {id,
 /// name, inputs_forecast, inputs_total, runs, probability, interval,
 /// most_often_late}, unmonitored[], warnings[], notes[].
 std::string intake_forecast_text(const IntakeReport& report);
