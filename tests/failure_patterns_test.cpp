@@ -156,3 +156,44 @@ TEST_CASE("demo: JSON keys and ordering follow DESIGN §5") {
   // Offsets follow the model zone at each instant.
   CHECK(s.find(R"("at": "2026-03-09T07:00:00-05:00", "status": "fail")") != std::string::npos);
 }
+
+TEST_CASE("a later start is proposed in whole minutes") {
+  // A feed that lands 30 s after the 06:00 run: the run would have to start
+  // 30 s later, but run times are cron minutes, so the proposal is 1 minute.
+  PlanLoadResult r = load_plan_text(R"(plan: minutes
+title: Minute rounding (fictional example)
+timezone: Etc/UTC
+sources:
+  feed:
+    schedule: "0 5 * * *"
+    lands_after: PT1H30S
+features:
+  f:
+    inputs: [feed]
+    max_age: PT12H
+models:
+  m:
+    features: [f]
+    runs:
+      - at: "0 6 * * *"
+)",
+                                    "minutes.plan.yaml");
+  INFO(r.rendered);
+  REQUIRE(r.plan);
+  const Plan& plan = *r.plan;
+  Evaluation ev = evaluate(plan, *parse_date("2026-03-02"), 3);
+  REQUIRE(ev.runs.size() == 3);
+  for (const RunResult& run : ev.runs) {
+    INFO(format_rfc3339(run.at, nullptr));
+    REQUIRE(run.status == RunStatus::fail);
+    REQUIRE(run.features.size() == 1);
+    CHECK(run.features[0].slack_seconds == -30);
+    std::optional<int64_t> later = later_start_needed(plan, ev, run);
+    REQUIRE(later);
+    CHECK(*later == 60);
+  }
+  std::vector<FailurePattern> patterns = failure_patterns(plan, ev);
+  REQUIRE(patterns.size() == 1);
+  REQUIRE(patterns[0].start_later_seconds);
+  CHECK(*patterns[0].start_later_seconds == 60);
+}
