@@ -226,7 +226,10 @@ class EntryParser {
       return;
     }
     r_.check_keys(*range, kRangeKeys, what);
-    bool both = r_.require(*range, "min", what, range->pos) & r_.require(*range, "max", what, range->pos);
+    // Both are checked, so that a range missing both keys reports both.
+    bool has_min = r_.require(*range, "min", what, range->pos);
+    bool has_max = r_.require(*range, "max", what, range->pos);
+    bool both = has_min && has_max;
     auto lo = r_.integer(*range, "min", what, -100000, 100000);
     auto hi = r_.integer(*range, "max", what, -100000, 100000);
     if (!both || !lo || !hi) return;
