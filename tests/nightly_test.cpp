@@ -143,7 +143,12 @@ TEST_CASE("nightly: a monitored node with no qualifying delivery is not landed")
   CHECK(chain_of(plan, r, run.features[0]) == "feed_a@never,f_a@never");
   CHECK(run.status == RunStatus::fail);
   CHECK_FALSE(r.ok());
-  // On time: 0 of 2 (one degraded, one failed); Wilson 95% for 0/2 is [0, 0.6576].
+  // On time: 0 of 2 (one degraded, one failed). The 95% Wilson score interval
+  // (Wilson EB. Probable inference, the law of succession, and statistical
+  // inference. J Am Stat Assoc 1927;22(158):209-212 — citation checked against
+  // the paper's first page; the closed form below from memory): with no
+  // successes the upper limit is z^2 / (n + z^2) = 1.959964^2 / (2 + 1.959964^2)
+  // = 0.65762, the lower limit 0.
   REQUIRE(r.on_time.size() == 1);
   CHECK(r.on_time[0].at_local == "06:00");
   CHECK(r.on_time[0].days == 2);
