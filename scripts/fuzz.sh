@@ -2,7 +2,8 @@
 # Fuzzing: install what is missing (clang and libFuzzer besides the usual
 # packages), build the libFuzzer targets of tests/fuzz/ with AddressSanitizer
 # and UndefinedBehaviorSanitizer into build-fuzz/, and run each target for
-# SECONDS (default 30) from its seed corpus tests/fuzz/corpus/TARGET/.
+# SECONDS (default 30) from its seed corpus tests/fuzz/corpus/TARGET/ (and
+# with the dictionary tests/fuzz/TARGET.dict of keys and tokens, if any).
 # Fails on any crash, sanitizer report, leak, input slower than 10 s or use of
 # more than 2 GB; the input that did it is saved as build-fuzz/findings/TARGET-*.
 #   scripts/fuzz.sh [SECONDS] [TARGET...]      e.g. scripts/fuzz.sh 600 plan_fuzz
@@ -51,9 +52,11 @@ for t in "${targets[@]}"; do
   mkdir -p "build-fuzz/corpus/$name"
   echo "== $t: ${SECONDS_PER_TARGET} s =="
   log="build-fuzz/$t.log"
+  dict=()
+  if [ -f "tests/fuzz/$name.dict" ]; then dict=(-dict="tests/fuzz/$name.dict"); fi
   status=0
   "build-fuzz/$t" -max_total_time="$SECONDS_PER_TARGET" -timeout=10 -rss_limit_mb=2048 -max_len=8192 \
-    -print_final_stats=1 -artifact_prefix="build-fuzz/findings/$t-" \
+    -print_final_stats=1 -artifact_prefix="build-fuzz/findings/$t-" "${dict[@]}" \
     "build-fuzz/corpus/$name" "tests/fuzz/corpus/$name" > "$log" 2>&1 || status=$?
   execs="$(sed -n 's/^stat::number_of_executed_units: *//p' "$log" | tail -1)"
   peak="$(sed -n 's/^stat::peak_rss_mb: *//p' "$log" | tail -1)"
