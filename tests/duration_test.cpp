@@ -135,3 +135,18 @@ TEST_CASE("a unit repeated right after 'T' is rejected", "[!shouldfail]") {
     CHECK(d.offset == c.offset);
   }
 }
+
+// Regression: `P1000000W` was accepted, then made one day's check take 42 s
+// and 700 MB, and sums of such durations overflowed. parse_duration caps
+// every duration at a century, so no sum with an instant can overflow.
+TEST_CASE("durations are bounded") {
+  CHECK(parse_duration("P36525D").value->seconds == kMaxDurationSeconds);
+  DurationParse too_long = parse_duration("P36526D");
+  CHECK_FALSE(too_long.value);
+  CHECK(too_long.error == "duration is longer than 36,525 days (P36525D)");
+  CHECK(parse_duration("P1000000W").error == "duration is longer than 36,525 days (P36525D)");
+  // The total counts, not only each part.
+  CHECK(parse_duration("P36525DT1S").error == "duration is longer than 36,525 days (P36525D)");
+  CHECK(parse_duration("PT9999999999999999999S").error == "duration is too large");
+  CHECK(kMaxTimingDurationSeconds == 1462 * 86400);  // DESIGN §4: the engine's horizon
+}

@@ -167,10 +167,28 @@ TEST_CASE("every bad-input class gets its exact message and position") {
        {"plan.yaml:38:19: error: unknown calendar 'weekday-only' (did you mean 'weekdays-only'?)"}},
       {"run that never fires", with_line(37, "      - at: \"0 6 * * sat\""),
        {"plan.yaml:37:13: error: the run '0 6 * * sat' of model 'ward_risk' never fires under calendar "
-        "'weekdays-only' (no occurrence within 1,462 days)"}},
+        "'weekdays-only' (defined at line 5) (no occurrence within 1,462 days)"}},
+      // Regression: a duration longer than the engine's horizon validated and
+      // then took minutes; `history` and `lookback` are only compared and may
+      // be longer.
+      {"timing duration beyond the horizon", with_line(11, "    lands_after: P1000W"),
+       {"plan.yaml:11:18: error: 'lands_after' of source 'lab_batch' is P1000W, longer than 1462 days, the longest a "
+        "plan's timing may span (P1462D)"}},
+      {"long history is fine", with_line(13, "    history: P3650D"), {}},
+      // Regression: the never-fires error pointed at the node's key; it
+      // points at the schedule that never fires.
       {"schedule that never fires", with_line(10, "    schedule: \"0 0 31 4 *\""),
-       {"plan.yaml:9:3: error: the schedule '0 0 31 4 *' of source 'lab_batch' never fires (no occurrence within "
+       {"plan.yaml:10:15: error: the schedule '0 0 31 4 *' of source 'lab_batch' never fires (no occurrence within "
         "1,462 days)"}},
+      // Independent of today's date: skip dates that silence a yearly
+      // schedule for five years make it never fire in some 1,462-day window.
+      // (1 January 2028 and 2033 are Saturdays, 2034 a Sunday: the calendar
+      // skips them too; the next delivery after 2026-01-01 is 2035-01-01.)
+      {"schedule silenced by skip dates",
+       with_lines(7, 10, "    skip_dates: [2027-01-01, 2029-01-01, 2030-01-01, 2031-01-01, 2032-01-01]\n"
+                         "sources:\n  lab_batch:\n    calendar: weekdays-only\n    schedule: \"0 0 1 1 *\""),
+       {"plan.yaml:11:15: error: the schedule '0 0 1 1 *' of source 'lab_batch' never fires under calendar "
+        "'weekdays-only' (defined at line 5): no occurrence within 1,462 days after 2026-01-01T06:00:00Z"}},
       {"zone on an inputs-triggered job", with_line(20, "    run_time: PT15M\n    timezone: Etc/UTC"),
        {"plan.yaml:21:5: error: 'timezone' of job 'labs_clean' applies to a cron trigger only; this node runs when "
         "its inputs land"}},

@@ -147,7 +147,7 @@ TEST_CASE("broader and narrower outcomes") {
   CHECK(find(reuse(kPneumonia), "grace-in-hospital")->coverage == Coverage::related);
 }
 
-TEST_CASE("partial cover gives adapt; horizons compare by ratio") {
+TEST_CASE("partial cover gives adapt, and horizons compare by ratio") {
   // Same outcome in the ward at admission with a 90-day horizon: setting, time point and horizon differ.
   std::string text = replace(replace(replace(kPneumonia, "[emergency-department]", "[intensive-care]"),
                                      "presentation", "daily"), "P30D", "P90D");

@@ -3,9 +3,12 @@
 #include "plan_fixture.h"
 
 #include <sqlite3.h>
+#include <sys/stat.h>
+#include <sys/wait.h>
 
 #include <atomic>
 #include <chrono>
+#include <cstdlib>
 #include <memory>
 #include <thread>
 
@@ -231,7 +234,7 @@ TEST_CASE("record and nightly run concurrently on one database") {
   CHECK(query(dir.file("h.db"), "SELECT count(*) FROM landing") == "245");
 }
 
-TEST_CASE("a recording killed mid-transaction leaves the database consistent; a re-run completes it") {
+TEST_CASE("a recording killed mid-transaction leaves the database consistent, and a re-run completes it") {
   TempDir dir;
   readyby_test::write_text(dir.file("plan.yaml"), kPlan);
   readyby_test::write_text(dir.file("first.csv"), daily_log(5));
@@ -313,4 +316,78 @@ TEST_CASE("store: a migration another process applied while this one waited is n
   CHECK(store->schema_version(&error) == current_schema_version());
   CHECK(query(db, "SELECT count(*) FROM schema_migrations") == std::to_string(current_schema_version()));
   CHECK(query(db, "PRAGMA integrity_check") == "ok");
+}
+
+// Regression: 3-6 of 100 races of `record` on a new database failed at once
+// while switching it to WAL ("database is locked"). Several processes now
+// create and record into one new file at the same time, in every round.
+TEST_CASE("concurrent record on a new database: every process succeeds") {
+  TempDir dir;
+  readyby_test::write_text(dir.file("plan.yaml"), kPlan);
+  const int kProcesses = 6, kRounds = 8;
+  for (int k = 0; k < kProcesses; ++k) {
+    readyby_test::write_text(dir.file("part" + std::to_string(k) + ".csv"), daily_log(20, 20 * k));
+  }
+  for (int round = 0; round < kRounds; ++round) {
+    const std::string db = dir.file("new" + std::to_string(round) + ".db");
+    std::vector<pid_t> pids;
+    for (int k = 0; k < kProcesses; ++k) {
+      std::string tag = std::to_string(round) + "-" + std::to_string(k);
+      pids.push_back(readyby_test::spawn_readyby(
+          {"record", dir.file("part" + std::to_string(k) + ".csv"), "--plan", dir.file("plan.yaml"), "--db", db},
+          dir.file("o" + tag), dir.file("e" + tag)));
+    }
+    for (int k = 0; k < kProcesses; ++k) {
+      std::string tag = std::to_string(round) + "-" + std::to_string(k);
+      int status = readyby_test::wait_for(pids[static_cast<size_t>(k)]);
+      INFO("round " << round << ", process " << k << ": " << readyby_test::read_text(dir.file("e" + tag)));
+      CHECK(status == 0);
+    }
+    CHECK(query(db, "PRAGMA integrity_check") == "ok");
+    CHECK(query(db, "SELECT count(*) FROM landing") == std::to_string(20 * kProcesses));
+    CHECK(query(db, "SELECT count(*) FROM schema_migrations") == std::to_string(current_schema_version()));
+  }
+}
+
+// Regression: `nightly` opened the history for writing, so it failed on a
+// file it may only read ("not an SQLite database (... readonly)"), and
+// `--db /dev/null` was refused. Reading commands open read-only; an empty
+// file is a history with nothing recorded.
+TEST_CASE("nightly reads a history it may not write, and /dev/null as an empty history") {
+  TempDir dir;
+  readyby_test::write_text(dir.file("plan.yaml"), kPlan);
+  readyby_test::write_text(dir.file("log.csv"), daily_log(10));
+  REQUIRE(readyby_test::run_readyby(dir, {"record", dir.file("log.csv"), "--plan", dir.file("plan.yaml"), "--db",
+                                          dir.file("h.db")})
+              .status == 0);
+  const std::vector<std::string> nightly = {"nightly", dir.file("plan.yaml"), "--db", dir.file("h.db"),
+                                            "--date", "2026-01-05", "--format", "json"};
+  auto as_owner = readyby_test::run_readyby(dir, nightly);
+  INFO(as_owner.err);
+  REQUIRE((as_owner.status == 0 || as_owner.status == 1));
+
+  // The same as an unprivileged user who can read but not write the file or
+  // its folder (only root can switch users here; others skip this part).
+  if (::geteuid() == 0 && std::system("command -v setpriv >/dev/null 2>&1") == 0) {
+    std::string cmd = "cd / && setpriv --reuid=65534 --regid=65534 --clear-groups " + std::string(READYBY_BINARY) +
+                      " nightly " + dir.file("plan.yaml") + " --db " + dir.file("h.db") +
+                      " --date 2026-01-05 --format json > " + dir.file("ro.out") + " 2> " + dir.file("ro.err");
+    ::chmod(dir.path().c_str(), 0755);
+    int raw = std::system(cmd.c_str());
+    INFO(readyby_test::read_text(dir.file("ro.err")));
+    CHECK(WIFEXITED(raw));
+    CHECK((WEXITSTATUS(raw) == 0 || WEXITSTATUS(raw) == 1));
+    CHECK(readyby_test::read_text(dir.file("ro.out")) == as_owner.out);
+  }
+
+  auto empty = readyby_test::run_readyby(
+      dir, {"nightly", dir.file("plan.yaml"), "--db", "/dev/null", "--date", "2026-01-05"});
+  INFO(empty.err);
+  CHECK((empty.status == 0 || empty.status == 1));
+  CHECK(empty.out.find("unmonitored") != std::string::npos);
+  // Recording needs a real file.
+  auto record_null = readyby_test::run_readyby(
+      dir, {"record", dir.file("log.csv"), "--plan", dir.file("plan.yaml"), "--db", "/dev/null"});
+  CHECK(record_null.status == 2);
+  CHECK(record_null.err.find("'/dev/null' is not a regular file") != std::string::npos);
 }

@@ -460,12 +460,14 @@ bool read_registries(const std::vector<std::string>& registries, RegistryFiles* 
       diags->error(registries[layer], {}, "registry folder not found");
       continue;
     }
-    bool structured = fs::is_directory(root / "vocabulary") || fs::is_directory(root / "scores") ||
-                      fs::is_directory(root / "local");
+    // The error_code overloads: an unreadable folder is "not there" here and
+    // an error when it is listed, never an exception.
+    bool structured = fs::is_directory(root / "vocabulary", ec) || fs::is_directory(root / "scores", ec) ||
+                      fs::is_directory(root / "local", ec);
     std::vector<std::pair<std::string, fs::path>> folders;  // folder name, path
     if (structured) {
       for (const char* sub : {"vocabulary", "scores", "local"}) {
-        if (fs::is_directory(root / sub)) folders.emplace_back(sub, root / sub);
+        if (fs::is_directory(root / sub, ec)) folders.emplace_back(sub, root / sub);
       }
     } else {
       folders.emplace_back("", root);

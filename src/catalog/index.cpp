@@ -301,11 +301,22 @@ std::optional<Duration> duration_or_null(const std::string& text) {
 }
 
 // An FTS5 query matching any word of `text`: each word quoted, joined by OR.
+// At most kMaxQueryWords distinct words of at most kMaxWordBytes bytes are
+// used: a pasted page of text must not make a query whose cost grows with
+// its square (a 100 KB query once took a minute).
+constexpr size_t kMaxQueryWords = 32;
+constexpr size_t kMaxWordBytes = 64;
 std::string fts_query(const std::string& text) {
   std::vector<std::string> words;
   std::string word;
   auto flush = [&] {
-    if (!word.empty()) words.push_back("\"" + word + "\"");
+    if (word.size() > kMaxWordBytes) word.resize(kMaxWordBytes);
+    while (!word.empty() && (static_cast<unsigned char>(word.back()) & 0xC0) == 0x80) word.pop_back();  // whole characters
+    if (!word.empty() && (static_cast<unsigned char>(word.back()) & 0xC0) == 0xC0) word.pop_back();
+    std::string quoted = "\"" + word + "\"";
+    if (!word.empty() && words.size() < kMaxQueryWords && std::find(words.begin(), words.end(), quoted) == words.end()) {
+      words.push_back(quoted);
+    }
     word.clear();
   };
   for (char c : text) {

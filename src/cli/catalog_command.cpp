@@ -26,7 +26,11 @@ int catalog_validate(std::vector<std::string> args) {
   std::vector<std::string> registries;
   std::string problem = take_registries(&args, &registries);
   if (!problem.empty()) return usage_error(problem, self().usage);
-  if (!args.empty()) return usage_error("catalog validate takes only --registry DIR options", self().usage);
+  if (!args.empty()) {
+    return usage_error(args[0].starts_with("-") ? unknown_option(args[0], self().usage)
+                                                : "catalog validate takes only --registry DIR options",
+                       self().usage);
+  }
   std::string shipped = shipped_registry();
   if (shipped.empty()) {
     std::cerr << "readyby: cannot find the catalogue: set READYBY_REGISTRY to the registries/ folder\n";
@@ -77,7 +81,7 @@ std::string parse_search_args(const std::vector<std::string>& args, SearchOption
       if (!n) return "--limit needs a whole number from 1 to 10000";
       o->limit = static_cast<size_t>(*n);
     } else if (a.starts_with("-")) {
-      return "unknown option '" + a + "'";
+      return unknown_option(a, self().usage);
     } else {
       o->text += (o->text.empty() ? "" : " ") + a;
     }
@@ -188,8 +192,10 @@ void print_entry(const Entry& e, const Vocabulary& v) {
 int catalog_show(std::vector<std::string> args) {
   std::vector<std::string> registries;
   std::string problem = take_registries(&args, &registries);
+  for (const std::string& a : args) {
+    if (problem.empty() && a.starts_with("-")) problem = unknown_option(a, self().usage);
+  }
   if (problem.empty() && args.size() != 1) problem = "catalog show needs one entry ID";
-  if (problem.empty() && args[0].starts_with("-")) problem = "unknown option '" + args[0] + "'";
   if (!problem.empty()) return usage_error(problem, self().usage);
   CatalogSession session;
   if (int rc = open_catalog(registries, true, &session); rc != kExitOk) return rc;

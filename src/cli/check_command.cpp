@@ -35,7 +35,7 @@ std::string parse_check_args(const std::vector<std::string>& args, CheckOptions*
       if (!v || v->find('@') == std::string::npos) return "--run needs MODEL@YYYY-MM-DDTHH:MM";
       o->run = *v;
     } else if (a.starts_with("-")) {
-      return "unknown option '" + a + "'";
+      return unknown_option(a, command_named("check").usage);
     } else if (o->plan_path.empty()) {
       o->plan_path = a;
     } else {
@@ -55,10 +55,15 @@ int explain_run(const Plan& plan, const CheckOptions& o) {
   if (model < 0) {
     std::vector<std::string> ids;
     for (const Model& m : plan.models) ids.push_back(m.id);
-    return usage_error("no model '" + model_id + "' in " + o.plan_path + did_you_mean(model_id, ids), self.usage);
+    return usage_error("no model '" + model_id + "' in " + o.plan_path + did_you_mean(model_id, ids) +
+                           "; its models: " + name_list(ids),
+                       self.usage);
   }
   std::optional<LocalTime> local = parse_local_datetime(o.run.substr(at + 1));
   if (!local) return usage_error("--run needs MODEL@YYYY-MM-DDTHH:MM (a local time in the model's zone)", self.usage);
+  if (std::string bad = unsupported_date(date::floor<date::days>(*local)); !bad.empty()) {
+    return usage_error("--run " + bad, self.usage);
+  }
   const Zone* zone = plan.models[static_cast<size_t>(model)].zone;
   Evaluation ev = evaluate_single(plan, model, zone->from_local(*local));
   if (o.format == "json") write_run_explanation_json(std::cout, plan, ev);

@@ -28,10 +28,13 @@ const char kCheckUsage[] =
 
 const char kRecordUsage[] =
     "usage: readyby record LOG... --plan PLAN [--db FILE] [--map FIELD=COLUMN,...]\n"
+    "                      [--map-status VALUE=ok|failed|skip,...]\n"
     "  Records landing logs (CSV with a header row, or JSON Lines) into the history\n"
     "  database (default readyby.db). Columns: node, landed_at, data_through, and\n"
     "  optionally scheduled_at, rows, status (ok|failed). --map renames columns,\n"
-    "  e.g. --map landed_at=load_end_ts,data_through=watermark. Every file is checked\n"
+    "  e.g. --map landed_at=load_end_ts,data_through=watermark; --map-status reads the\n"
+    "  log's own status values, e.g. --map-status SUCCESS=ok,ERROR=failed,RUNNING=skip\n"
+    "  (skip: the row is not a delivery and is left out). Every file is checked\n"
     "  first; any bad row rejects the whole command with PATH:LINE errors and nothing\n"
     "  is written. Each file is one transaction; recording a file again adds nothing.\n"
     "  Exit 0 when recorded, 2 on bad input.\n";
@@ -104,27 +107,38 @@ int usage_error(const std::string& message, const char* usage) {
 
 namespace {
 
+void print_overview(FILE* out) {
+  std::fprintf(out, "%s: is the data there in time, and has a published score already covered it?\n\n", kVersion);
+  std::fprintf(out, "usage: readyby COMMAND [ARGS]\n\ncommands:\n");
+  for (const Command& c : command_table()) std::fprintf(out, "  %-10s %s\n", c.name, c.summary);
+  std::fprintf(out, "\n'readyby COMMAND --help' shows a command's options.\n");
+}
+
 int cmd_help(const std::vector<std::string>& args) {
+  if (wants_help(args, kHelpUsage)) return kExitOk;
+  if (args.size() > 1) return usage_error("help takes at most one COMMAND", kHelpUsage);
   if (!args.empty()) {
+    std::vector<std::string> names;
     for (const Command& c : command_table()) {
       if (args[0] == c.name) {
         std::fputs(c.usage, stdout);
         return kExitOk;
       }
+      names.emplace_back(c.name);
     }
-    return usage_error("no command '" + args[0] + "'", kHelpUsage);
+    return usage_error("no command '" + args[0] + "'" + did_you_mean(args[0], names), kHelpUsage);
   }
-  std::printf("%s: is the data there in time, and has a published score already covered it?\n\n", kVersion);
-  std::printf("usage: readyby COMMAND [ARGS]\n\ncommands:\n");
-  for (const Command& c : command_table()) std::printf("  %-10s %s\n", c.name, c.summary);
-  std::printf("\n'readyby COMMAND --help' shows a command's options.\n");
+  print_overview(stdout);
   return kExitOk;
 }
 
 }  // namespace
 
 int run_cli(const std::vector<std::string>& args) {
-  if (args.empty()) return cmd_help({});
+  if (args.empty()) {  // a command is required: the overview, as a usage error
+    print_overview(stderr);
+    return kExitBadInput;
+  }
   const std::string& name = args[0];
   if (name == "--version" || name == "version") {
     std::printf("%s\n", kVersion);

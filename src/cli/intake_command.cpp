@@ -40,7 +40,7 @@ std::string parse_intake_args(std::vector<std::string> args, IntakeOptions* o) {
         take_format(args, &i, {"text", "json", "markdown"}, &o->format, &error)) {
       if (!error.empty()) return error;
     } else if (a.starts_with("-")) {
-      return "unknown option '" + a + "'";
+      return unknown_option(a, command_named("intake").usage);
     } else if (o->proposal_path.empty()) {
       o->proposal_path = a;
     } else {
@@ -139,6 +139,7 @@ int cmd_intake(const std::vector<std::string>& args) {
   std::optional<PlanLoadResult> loaded =
       load_intake_plan(*proposal, resolution, session.vocabulary, &model, &diags, &plan_errors);
   if (!loaded) return report_errors(diags, o.proposal_path, plan_errors);
+  std::cerr << loaded->rendered;  // the plan's warnings
   const Plan& plan = *loaded->plan;
   const Model& m = plan.models[static_cast<size_t>(model)];
   if (!o.from) o.from = today_in(*m.zone);

@@ -36,6 +36,7 @@ std::string parse_nightly_args(const std::vector<std::string>& args, NightlyOpti
     } else if (is_option(a, "--date")) {
       auto v = option_value(args, &i, "--date");
       if (!v || !(o->date = parse_date(*v))) return "--date needs a date YYYY-MM-DD";
+      if (std::string bad = unsupported_date(*o->date); !bad.empty()) return "--date " + bad;
     } else if (is_option(a, "--window")) {
       std::optional<long> n = whole_number(option_value(args, &i, "--window"), 1, 366);
       if (!n) return "--window needs a whole number of days from 1 to 366";
@@ -43,7 +44,7 @@ std::string parse_nightly_args(const std::vector<std::string>& args, NightlyOpti
     } else if (std::string error; take_format(args, &i, {"text", "json", "junit", "metrics"}, &o->format, &error)) {
       if (!error.empty()) return error;
     } else if (a.starts_with("-")) {
-      return "unknown option '" + a + "'";
+      return unknown_option(a, nightly_command().usage);
     } else if (o->plan_path.empty()) {
       o->plan_path = a;
     } else {
@@ -67,7 +68,7 @@ int cmd_nightly(const std::vector<std::string>& args) {
   const Plan& plan = *loaded;
   if (!o.date) o.date = today_in(*plan.zone);
   std::string error;
-  std::unique_ptr<HistoryStore> store = HistoryStore::open(o.db_path, HistoryStore::Mode::existing, &error);
+  std::unique_ptr<HistoryStore> store = HistoryStore::open(o.db_path, HistoryStore::Mode::read_only, &error);
   if (!store) {
     std::cerr << "readyby: " << error << "\n";
     return kExitBadInput;
@@ -80,6 +81,10 @@ int cmd_nightly(const std::vector<std::string>& args) {
   }
   store.reset();
   NightlyReport report = evaluate_nightly(plan, *history, first, *o.date, o.window);
+  report.evaluated_at = std::chrono::time_point_cast<Seconds>(std::chrono::system_clock::now());
+  if (o.format != "text") {  // the text report shows them in place
+    for (const SilentNode& q : report.silent) std::cerr << "readyby: warning: " << silent_warning(plan, q, plan.zone) << "\n";
+  }
   if (o.format == "json") write_nightly_json(std::cout, plan, report);
   else if (o.format == "junit") write_nightly_junit(std::cout, plan, report);
   else if (o.format == "metrics") write_nightly_metrics(std::cout, plan, report);

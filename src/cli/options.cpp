@@ -2,6 +2,7 @@
 
 #include <unistd.h>
 
+#include <algorithm>
 #include <chrono>
 #include <cstdlib>
 
@@ -25,6 +26,54 @@ std::optional<std::string> option_value(const std::vector<std::string>& args, si
   return std::nullopt;
 }
 
+namespace {
+
+// Edit distance where swapping two neighbouring characters costs 1, like an
+// insertion, deletion or substitution (the optimal string alignment
+// distance): "--fromat" is one step from "--format", two from "--from".
+size_t typo_distance(std::string_view a, std::string_view b) {
+  std::vector<std::vector<size_t>> d(a.size() + 1, std::vector<size_t>(b.size() + 1));
+  for (size_t i = 0; i <= a.size(); ++i) d[i][0] = i;
+  for (size_t j = 0; j <= b.size(); ++j) d[0][j] = j;
+  for (size_t i = 1; i <= a.size(); ++i) {
+    for (size_t j = 1; j <= b.size(); ++j) {
+      d[i][j] = std::min({d[i - 1][j] + 1, d[i][j - 1] + 1, d[i - 1][j - 1] + (a[i - 1] == b[j - 1] ? 0 : 1)});
+      if (i > 1 && j > 1 && a[i - 1] == b[j - 2] && a[i - 2] == b[j - 1]) d[i][j] = std::min(d[i][j], d[i - 2][j - 2] + 1);
+    }
+  }
+  return d[a.size()][b.size()];
+}
+
+}  // namespace
+
+std::string unknown_option(const std::string& arg, const char* usage) {
+  std::vector<std::string> known = {"--help"};
+  std::string_view text(usage);
+  for (size_t at = text.find("--"); at != std::string_view::npos; at = text.find("--", at + 2)) {
+    size_t end = at + 2;
+    while (end < text.size() && ((text[end] >= 'a' && text[end] <= 'z') || text[end] == '-')) ++end;
+    std::string name(text.substr(at, end - at));
+    if (name.size() > 2 && std::find(known.begin(), known.end(), name) == known.end()) known.push_back(name);
+    at = end - 2;
+  }
+  const std::string name = arg.substr(0, std::min(arg.find('='), size_t{64}));
+  const size_t limit = std::max<size_t>(2, name.size() / 3);  // as util/text.h's nearest()
+  size_t best = limit + 1;
+  std::string found;
+  for (const std::string& k : known) {
+    const size_t d = typo_distance(name, k);
+    if (d < best) best = d, found = k;
+  }
+  return "unknown option '" + arg + "'" + (found.empty() ? "" : " (did you mean '" + found + "'?)");
+}
+
+std::string name_list(const std::vector<std::string>& names, size_t at_most) {
+  std::string out;
+  for (size_t i = 0; i < names.size() && i < at_most; ++i) out += (i ? ", " : "") + names[i];
+  if (names.size() > at_most) out += " and " + std::to_string(names.size() - at_most) + " more";
+  return out;
+}
+
 const Command& command_named(std::string_view name) {
   for (const Command& c : command_table()) {
     if (name == c.name) return c;
@@ -34,7 +83,7 @@ const Command& command_named(std::string_view name) {
 
 std::optional<Plan> load_plan_or_report(const std::string& path) {
   PlanLoadResult loaded = load_plan_file(path);
-  if (!loaded.plan) std::cerr << loaded.rendered;
+  std::cerr << loaded.rendered;  // the errors, or the warnings of a valid plan
   return std::move(loaded.plan);
 }
 
@@ -69,6 +118,7 @@ bool take_window(const std::vector<std::string>& args, size_t* i, std::optional<
   if (is_option(args[*i], "--from")) {
     std::optional<std::string> v = option_value(args, i, "--from");
     if (!v || !(*from = parse_date(*v))) *error = "--from needs a date YYYY-MM-DD";
+    else if (std::string bad = unsupported_date(**from); !bad.empty()) *error = "--from " + bad;
     return true;
   }
   if (is_option(args[*i], "--days")) {

@@ -23,6 +23,14 @@ std::optional<std::string> option_value(const std::vector<std::string>& args, si
 /// Whether args[i] is option `name` in either form.
 bool is_option(const std::string& arg, std::string_view name);
 
+/// "unknown option 'ARG'", with " (did you mean '--NAME'?)" when one of the
+/// options named in `usage` (every `--name` it mentions, and --help) is close
+/// to ARG; a value written `--name=value` is left out of the comparison.
+std::string unknown_option(const std::string& arg, const char* usage);
+
+/// "a, b, c" — at most `at_most` names, then " and N more".
+std::string name_list(const std::vector<std::string>& names, size_t at_most = 20);
+
 /// The command table entry named `name` (which must exist).
 const Command& command_named(std::string_view name);
 
@@ -43,8 +51,8 @@ LocalDays today_in(const Zone& zone);
 /// Colour only on a terminal, never when NO_COLOR is set or TERM is dumb.
 bool use_colour();
 
-/// Loads the plan at `path`; on any error prints every diagnostic (with
-/// source lines and carets) to stderr and returns nullopt.
+/// Loads the plan at `path`; prints its warnings to stderr, and on any error
+/// every diagnostic (with source lines and carets), then returns nullopt.
 std::optional<Plan> load_plan_or_report(const std::string& path);
 
 /// `text` as a whole number in [lo, hi]; nullopt when absent, not a number

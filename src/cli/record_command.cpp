@@ -1,4 +1,4 @@
-// `readyby record LOG... --plan PLAN [--db FILE] [--map ...]`: validate every
+// `readyby record LOG... --plan PLAN [--db FILE] [--map ...] [--map-status ...]`: validate every
 // landing log against the plan, then record each file in its own transaction.
 // Any bad row in any file rejects the whole command before anything is written.
 
@@ -40,9 +40,13 @@ std::string parse_record_args(const std::vector<std::string>& args, RecordOption
       std::string problem;
       std::optional<ColumnMap> map = parse_column_map(*v, &problem);
       if (!map) return problem;
-      o->map = *map;
+      o->map.column = map->column;
+    } else if (is_option(a, "--map-status")) {
+      auto v = option_value(args, &i, "--map-status");
+      if (!v) return "--map-status needs VALUE=ok|failed|skip pairs";
+      if (std::string problem; !parse_status_map(*v, &o->map, &problem)) return problem;
     } else if (a.starts_with("-") && a != "-") {
-      return "unknown option '" + a + "'";
+      return unknown_option(a, record_command().usage);
     } else {
       o->logs.push_back(a);
     }
@@ -91,7 +95,9 @@ int cmd_record(const std::vector<std::string>& args) {
       return kExitBadInput;
     }
     std::cout << o.logs[i] << ": " << logs[i].rows.size() << " row" << (logs[i].rows.size() == 1 ? "" : "s") << ", "
-              << *added << " new" << std::endl;  // flushed: progress for whoever watches
+              << *added << " new";
+    if (logs[i].skipped > 0) std::cout << " (" << logs[i].skipped << " skipped by --map-status)";
+    std::cout << std::endl;  // flushed: progress for whoever watches
   }
   int64_t total = store->row_count(&error);
   if (total >= 0) std::cout << o.db_path << ": " << total << " landing rows recorded in all\n";

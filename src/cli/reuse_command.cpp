@@ -28,7 +28,7 @@ int cmd_reuse(const std::vector<std::string>& raw) {
     const std::string& a = args[i];
     if (take_format(args, &i, {"text", "json"}, &format, &problem)) {
     } else if (a.starts_with("-")) {
-      problem = "unknown option '" + a + "'";
+      problem = unknown_option(a, self().usage);
     } else if (proposal_path.empty()) {
       proposal_path = a;
     } else {

@@ -1,5 +1,6 @@
 #include <cstdio>
 #include <iostream>
+#include <string>
 
 #include "cli/commands.h"
 #include "cli/options.h"
@@ -10,19 +11,25 @@ namespace readyby {
 int cmd_validate(const std::vector<std::string>& args) {
   const Command& self = command_named("validate");
   if (wants_help(args, self.usage)) return kExitOk;
-  if (args.size() != 1 || args[0].starts_with("-")) {
+  // Options first: `validate plan.yaml --format json` is about the option.
+  for (const std::string& a : args) {
+    if (a.starts_with("-") && a != "-") return usage_error(unknown_option(a, self.usage), self.usage);
+  }
+  if (args.size() != 1) {
     return usage_error(args.empty() ? "validate needs a PLAN file" : "validate takes exactly one PLAN file", self.usage);
   }
   PlanLoadResult loaded = load_plan_file(args[0]);
+  std::cerr << loaded.rendered;  // errors, or the warnings of a valid plan
   if (!loaded.plan) {
-    std::cerr << loaded.rendered;
     std::cerr << loaded.errors.size() << (loaded.errors.size() == 1 ? " error" : " errors") << " in " << args[0] << "\n";
     return kExitBadInput;
   }
   const Plan& plan = *loaded.plan;
-  std::printf("%s: plan '%s' is valid: %zu sources, %zu jobs, %zu features, %zu models\n", args[0].c_str(),
+  const size_t warnings = loaded.warnings.size();
+  std::printf("%s: plan '%s' is valid: %zu sources, %zu jobs, %zu features, %zu models%s\n", args[0].c_str(),
               plan.id.c_str(), plan.count(NodeKind::source), plan.count(NodeKind::job), plan.count(NodeKind::feature),
-              plan.models.size());
+              plan.models.size(),
+              warnings == 0 ? "" : (" (" + std::to_string(warnings) + (warnings == 1 ? " warning)" : " warnings)")).c_str());
   return kExitOk;
 }
 

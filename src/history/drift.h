@@ -8,7 +8,7 @@
 //   row's `scheduled_at` when logged, else the latest occurrence of the
 //   source's schedule (its zone and calendar) at or before landed_at;
 // - stream source: landed_at minus data_through (for a stream, lands_after is
-//   the delay from the data's time to its landing, DESIGN §4).
+//   the delay from the data's time to its landing).
 // Failed deliveries are not landings and are left out.
 //
 // Trend: the Theil–Sen slope of offset against landed_at, in seconds per

@@ -28,7 +28,7 @@ const char* to_string(LogField f) {
 std::string LogError::str() const {
   std::string out = path;
   if (line > 0) out += ':' + std::to_string(line);
-  return out + ": error: " + message;
+  return printable(out + ": error: " + message);
 }
 
 ColumnMap::ColumnMap() {
@@ -69,6 +69,42 @@ std::optional<ColumnMap> parse_column_map(std::string_view spec, std::string* er
   return map;
 }
 
+bool parse_status_map(std::string_view spec, ColumnMap* map, std::string* error) {
+  std::vector<std::pair<std::string, StatusMeaning>> values;
+  size_t start = 0;
+  while (start <= spec.size()) {
+    size_t comma = spec.find(',', start);
+    if (comma == std::string_view::npos) comma = spec.size();
+    std::string_view item = spec.substr(start, comma - start);
+    size_t eq = item.rfind('=');
+    if (eq == std::string_view::npos || eq == 0) {
+      *error = "--map-status expects VALUE=ok|failed|skip pairs separated by commas, got '" + std::string(item) + "'";
+      return false;
+    }
+    std::string value(item.substr(0, eq));
+    std::string_view meaning = item.substr(eq + 1);
+    StatusMeaning m;
+    if (meaning == "ok") m = StatusMeaning::ok;
+    else if (meaning == "failed") m = StatusMeaning::failed;
+    else if (meaning == "skip") m = StatusMeaning::skip;
+    else {
+      *error = "--map-status: '" + std::string(meaning) + "' for value '" + value +
+               "' must be ok, failed or skip" + did_you_mean(meaning, {"ok", "failed", "skip"});
+      return false;
+    }
+    for (const auto& [v, ignored] : values) {
+      if (v == value) {
+        *error = "--map-status: value '" + value + "' is mapped twice";
+        return false;
+      }
+    }
+    values.emplace_back(std::move(value), m);
+    start = comma + 1;
+  }
+  map->status_values = std::move(values);
+  return true;
+}
+
 LogFormat detect_log_format(std::string_view path, std::string_view text) {
   if (path.ends_with(".jsonl") || path.ends_with(".ndjson")) return LogFormat::json_lines;
   if (path.ends_with(".csv")) return LogFormat::csv;
@@ -84,11 +120,14 @@ using RawRow = std::array<std::optional<std::string>, kLogFieldCount>;
 struct Validator {
   const std::string& path;
   const Plan& plan;
+  const ColumnMap& map;
   std::unordered_map<std::string_view, int> node_index;
   std::vector<std::string> node_ids;
+  std::unordered_map<std::string, std::string> suggestions;  // unknown node -> its did-you-mean
   LandingLog* out;
 
-  Validator(const std::string& p, const Plan& pl, LandingLog* o) : path(p), plan(pl), out(o) {
+  Validator(const std::string& p, const Plan& pl, const ColumnMap& m, LandingLog* o)
+      : path(p), plan(pl), map(m), out(o) {
     for (size_t i = 0; i < plan.nodes.size(); ++i) {
       node_index.emplace(plan.nodes[i].id, static_cast<int>(i));
       node_ids.push_back(plan.nodes[i].id);
@@ -111,7 +150,30 @@ struct Validator {
     return t;
   }
 
+  // The meaning of a status value: the log's own values first, then ok and
+  // failed; nullopt for any other value.
+  std::optional<StatusMeaning> status_meaning(const std::string& value) const {
+    for (const auto& [v, m] : map.status_values) {
+      if (v == value) return m;
+    }
+    if (value == "ok") return StatusMeaning::ok;
+    if (value == "failed") return StatusMeaning::failed;
+    return std::nullopt;
+  }
+
+  // Whether the row's status means skip.
+  bool skips(const RawRow& raw) const {
+    const auto& status_text = raw[static_cast<size_t>(LogField::status)];
+    return status_text && status_meaning(*status_text) == StatusMeaning::skip;
+  }
+
   void row(int line, const RawRow& raw) {
+    const auto& status_text = raw[static_cast<size_t>(LogField::status)];
+    const std::optional<StatusMeaning> status = status_text ? status_meaning(*status_text) : StatusMeaning::ok;
+    if (status == StatusMeaning::skip) {
+      ++out->skipped;
+      return;
+    }
     const size_t before = out->errors.size();
     LandingRow r;
     r.line = line;
@@ -121,14 +183,19 @@ struct Validator {
     } else if (auto it = node_index.find(*node); it != node_index.end()) {
       r.node = it->second;
     } else {
-      error(line, "unknown node '" + *node + "'" + did_you_mean(*node, node_ids) + " in plan " + plan.id);
+      // One suggestion per distinct unknown name: a log of 100,000 rows of a
+      // node the plan lacks must not search the plan's ids 100,000 times.
+      auto [hint, fresh] = suggestions.try_emplace(*node);
+      if (fresh) hint->second = did_you_mean(*node, node_ids);
+      error(line, "unknown node '" + *node + "'" + hint->second + " in plan " + plan.id);
     }
     std::optional<Instant> landed = instant(line, raw, LogField::landed_at, true);
     std::optional<Instant> through = instant(line, raw, LogField::data_through, true);
     std::optional<Instant> scheduled = instant(line, raw, LogField::scheduled_at, false);
-    if (landed && through && *through > *landed) {
-      error(line, "data_through " + format_rfc3339(*through, nullptr) + " is after landed_at " +
-                      format_rfc3339(*landed, nullptr) + " (a delivery cannot hold data from after it landed)");
+    if (landed && through && *through > *landed) {  // quoted as written, with their own offsets
+      error(line, "data_through " + *raw[static_cast<size_t>(LogField::data_through)] + " is after landed_at " +
+                      *raw[static_cast<size_t>(LogField::landed_at)] +
+                      " (a delivery cannot hold data from after it landed)");
     }
     if (const auto& rows = raw[static_cast<size_t>(LogField::rows)]) {
       int64_t n = -1;
@@ -139,9 +206,13 @@ struct Validator {
         r.rows = n;
       }
     }
-    if (const auto& status = raw[static_cast<size_t>(LogField::status)]) {
-      if (*status == "failed") r.status = LandingStatus::failed;
-      else if (*status != "ok") error(line, "bad status '" + *status + "': expected ok or failed");
+    if (!status) {
+      error(line, "bad status '" + *status_text + "': expected ok or failed" +
+                      (map.status_values.empty()
+                           ? "; map the log's own values with --map-status, e.g. --map-status '" + *status_text + "=ok'"
+                           : " or a value given to --map-status"));
+    } else if (*status == StatusMeaning::failed) {
+      r.status = LandingStatus::failed;
     }
     if (out->errors.size() != before) return;
     r.landed_at = *landed;
@@ -218,8 +289,18 @@ void for_each_line(std::string_view text, F f) {
   }
 }
 
-std::string mapped_note(const ColumnMap& map, LogField f) {
-  return map[f] == to_string(f) ? "" : std::string(" (mapped to ") + to_string(f) + ")";
+// "missing column 'node' (the header has: a, b); ..." — for a required
+// field whose column the file does not have, with the columns it does have
+// (`where` says whose they are) and how to map one.
+std::string missing_column(const ColumnMap& map, LogField f, const std::vector<std::string>& present,
+                           const char* where) {
+  const std::string field = to_string(f);
+  std::string out = "missing column '" + map[f] + "'" + (map[f] == field ? "" : " (mapped to " + field + ")");
+  std::string listed;
+  for (size_t i = 0; i < present.size() && i < 20; ++i) listed += (i ? ", " : "") + present[i];
+  if (present.size() > 20) listed += " and " + std::to_string(present.size() - 20) + " more";
+  out += std::string(" (") + where + ": " + (listed.empty() ? "none" : listed) + ")";
+  return out + "; if the log names it differently, map it with --map " + field + "=COLUMN";
 }
 
 void parse_csv(std::string_view text, const ColumnMap& map, Validator* v) {
@@ -227,6 +308,7 @@ void parse_csv(std::string_view text, const ColumnMap& map, Validator* v) {
   column_of.fill(-1);
   size_t header_fields = 0;
   bool have_header = false;
+  bool header_complete = true;
   std::vector<std::string> fields;
   std::string problem;
   RawRow raw;
@@ -236,19 +318,23 @@ void parse_csv(std::string_view text, const ColumnMap& map, Validator* v) {
     if (!have_header) {
       have_header = true;
       header_fields = fields.size();
+      std::vector<std::string> names;
       for (size_t c = 0; c < fields.size(); ++c) {
         std::string_view name = trim(fields[c]);
+        names.emplace_back(name);
         for (size_t f = 0; f < kLogFieldCount; ++f) {
           if (name == map.column[f] && column_of[f] < 0) column_of[f] = static_cast<int>(c);
         }
       }
       for (LogField f : {LogField::node, LogField::landed_at, LogField::data_through}) {
         if (column_of[static_cast<size_t>(f)] < 0) {
-          v->error(number, "the header has no column '" + map[f] + "'" + mapped_note(map, f));
+          v->error(number, missing_column(map, f, names, "the header has"));
+          header_complete = false;
         }
       }
       return;
     }
+    if (!header_complete) return;  // every row would miss the same columns
     if (fields.size() != header_fields) {
       return v->error(number, "expected " + std::to_string(header_fields) + " fields as in the header, found " +
                                   std::to_string(fields.size()));
@@ -409,21 +495,36 @@ void parse_json_lines(std::string_view text, const ColumnMap& map, Validator* v)
   std::string problem;
   RawRow raw;
   bool any = false;
+  std::array<bool, kLogFieldCount> hinted{};  // the --map hint is given once per field
   for_each_line(text, [&](int number, std::string_view line) {
     if (trim(line).empty()) return;
     any = true;
     members.clear();
     if (!FlatJson(line).parse(&members, &problem)) return v->error(number, problem);
+    std::array<bool, kLogFieldCount> present{};
     for (size_t f = 0; f < kLogFieldCount; ++f) {
       raw[f].reset();
       for (const auto& [key, value] : members) {
         if (key == map.column[f]) {
+          present[f] = true;
           if (value && !trim(*value).empty()) raw[f] = std::string(trim(*value));
           break;
         }
       }
     }
-    v->row(number, raw);
+    if (v->skips(raw)) return v->row(number, raw);  // counted, not checked
+    bool complete = true;
+    for (LogField field : {LogField::node, LogField::landed_at, LogField::data_through}) {
+      const auto f = static_cast<size_t>(field);
+      if (present[f]) continue;
+      std::vector<std::string> keys;
+      for (const auto& member : members) keys.push_back(member.first);
+      v->error(number, hinted[f] ? "missing column '" + map[field] + "'"
+                                 : missing_column(map, field, keys, "this line has"));
+      hinted[f] = true;
+      complete = false;
+    }
+    if (complete) v->row(number, raw);
   });
   if (!any) v->error(0, "empty landing log: no rows");
 }
@@ -433,7 +534,10 @@ void parse_json_lines(std::string_view text, const ColumnMap& map, Validator* v)
 LandingLog parse_landing_log(std::string_view text, const std::string& path, const Plan& plan,
                              const ColumnMap& map) {
   LandingLog out;
-  Validator v(path, plan, &out);
+  Validator v(path, plan, map, &out);
+  // A UTF-8 byte order mark, as spreadsheet exports write it, is not part of
+  // the first column's name.
+  if (text.substr(0, 3) == "\xEF\xBB\xBF") text.remove_prefix(3);
   size_t bad_utf8 = invalid_utf8_offset(text);
   if (bad_utf8 != std::string_view::npos) {
     int line = 1 + static_cast<int>(std::count(text.begin(), text.begin() + static_cast<std::ptrdiff_t>(bad_utf8), '\n'));

@@ -3,6 +3,9 @@
 #include <algorithm>
 #include <map>
 
+#include "time/cron.h"
+#include "time/zone.h"
+
 namespace readyby {
 
 namespace {
@@ -32,23 +35,15 @@ LocalDays window_start(const Plan& plan, const std::vector<std::optional<Instant
   return std::min(from, date);
 }
 
-std::string local_hhmm(Instant t, const Zone& zone) {
-  LocalTime local = zone.to_local(t);
-  auto since_midnight = local - date::floor<date::days>(local);
-  int64_t minutes = std::chrono::duration_cast<std::chrono::minutes>(since_midnight).count();
-  char buffer[8];
-  std::snprintf(buffer, sizeof buffer, "%02d:%02d", static_cast<int>(minutes / 60), static_cast<int>(minutes % 60));
-  return buffer;
-}
-
 std::vector<OnTimeRate> on_time_rates(const Plan& plan, const Evaluation& ev) {
   std::map<std::pair<int, std::string>, OnTimeRate> groups;
   for (const RunResult& run : ev.runs) {
     const Model& model = plan.models[static_cast<size_t>(run.model)];
-    OnTimeRate& g = groups[{run.model, local_hhmm(run.at, *model.zone)}];
+    OnTimeRate& g = groups[{run.model, local_run_time(run.at, *model.zone)}];
     g.model = run.model;
     ++g.days;
-    if (run.status == RunStatus::ok) ++g.on_time;
+    if (run.status != RunStatus::fail) ++g.on_time;
+    if (run.status == RunStatus::degraded) ++g.degraded;
   }
   std::vector<OnTimeRate> out;
   for (auto& [key, g] : groups) {
@@ -100,7 +95,47 @@ std::vector<std::optional<int64_t>> current_slack(const Plan& plan, const Evalua
   return slack;
 }
 
+// The instant a node's next delivery after `after` was due by its declared
+// timing: its schedule's (or cron trigger's) next occurrence plus lands_after
+// and run_time; nullopt when it has no schedule of its own or none follows.
+std::optional<Instant> next_due(const Plan& plan, const Node& node, Instant after) {
+  const std::optional<Cron>& cron = node.schedule ? node.schedule : node.trigger;
+  if (!cron || !node.zone) return std::nullopt;
+  std::optional<Instant> next = next_occurrence(*cron, *node.zone, plan.calendar(node.calendar), after + Seconds(1));
+  if (!next) return std::nullopt;
+  return *next + Seconds(node.lands_after.seconds) + Seconds(node.run_time.seconds);
+}
+
+void find_silent(const Plan& plan, const History& history, NightlyReport* report) {
+  report->last_landed.assign(plan.nodes.size(), std::nullopt);
+  const Instant quiet_from = report->as_of - Seconds(int64_t{kSilentDays} * kSecondsPerDay);
+  for (size_t n = 0; n < plan.nodes.size() && n < history.size(); ++n) {
+    if (!history[n]) continue;
+    std::optional<Instant>& last = report->last_landed[n];
+    for (const StoredLanding& l : *history[n]) {
+      if (l.landed_at <= report->as_of && (!last || l.landed_at > *last)) last = l.landed_at;
+    }
+    if (last && *last > quiet_from) continue;
+    const Node& node = plan.nodes[n];
+    const bool scheduled = node.schedule || node.trigger;
+    if (scheduled) {
+      std::optional<Instant> due = next_due(plan, node, last ? *last : quiet_from);
+      if (!due || *due > report->as_of) continue;
+    }
+    report->silent.push_back({static_cast<int>(n), last});
+  }
+}
+
 }  // namespace
+
+std::string local_run_time(Instant t, const Zone& zone) {
+  LocalTime local = zone.to_local(t);
+  auto since_midnight = local - date::floor<date::days>(local);
+  int64_t minutes = std::chrono::duration_cast<std::chrono::minutes>(since_midnight).count();
+  char buffer[8];
+  std::snprintf(buffer, sizeof buffer, "%02d:%02d", static_cast<int>(minutes / 60), static_cast<int>(minutes % 60));
+  return buffer;
+}
 
 bool NightlyReport::ok() const {
   return std::none_of(today.begin(), today.end(),
@@ -117,7 +152,10 @@ std::vector<ChainLanding> NightlyReport::chain_landings(const FeatureResult& f) 
 
 Instant history_needed_since(const Plan& plan, LocalDays date, int window) {
   LocalDays from = date - date::days(window - 1);
-  return plan.zone->from_local(LocalTime(from.time_since_epoch())) - Seconds(2 * kSecondsPerDay) -
+  // Two days of margin, and room to see the last kSilentDays days before
+  // the first date: a landing then may hold data from a day earlier.
+  const int64_t margin = std::max<int64_t>(2, kSilentDays + 1) * kSecondsPerDay;
+  return plan.zone->from_local(LocalTime(from.time_since_epoch())) - Seconds(margin) -
          Seconds(max_feature_age(plan)) - Seconds(max_data_lag(plan));
 }
 
@@ -147,6 +185,12 @@ NightlyReport evaluate_nightly(const Plan& plan, const History& history,
     const RunResult& run = report.evaluation.runs[i];
     if (local_date(*plan.models[static_cast<size_t>(run.model)].zone, run.at) == date) report.today.push_back(i);
   }
+  report.as_of = plan.zone->from_local(LocalTime((date + date::days(1)).time_since_epoch())) - Seconds(1);
+  if (!report.today.empty()) {
+    report.as_of = report.evaluation.runs[report.today.front()].at;
+    for (size_t i : report.today) report.as_of = std::max(report.as_of, report.evaluation.runs[i].at);
+  }
+  find_silent(plan, history, &report);
   report.on_time = on_time_rates(plan, report.evaluation);
   report.weakest_link = weakest_link(plan, report.evaluation);
   const std::vector<std::optional<int64_t>> slack = current_slack(plan, report.evaluation);

@@ -1,5 +1,5 @@
 #pragma once
-// The nightly check (DESIGN §7): one local day's runs evaluated against what
+// The nightly check: one local day's runs evaluated against what
 // actually landed, with drift and on-time rates from the history. Pure
 // computation over a plan and recorded deliveries; the store reads them and
 // the report writers render the result.
@@ -18,8 +18,19 @@
 //   runs of `date` are the report's runs (status ok / degraded / fail; a
 //   feature never ready is "not-landed").
 // - On-time rate per model and local run time (HH:MM in the model's zone):
-//   runs with status ok over runs evaluated in the window, with a Wilson 95%
-//   interval. Degraded runs are not on time (they missed an input).
+//   runs on time over runs evaluated in the window, with a Wilson 95%
+//   interval. A run is on time when it is ok or degraded — every required
+//   feature was fresh; a degraded run scored without an optional one — the
+//   same line the exit status, JUnit and the metrics' run_ok draw. Degraded
+//   runs are also counted on their own.
+// - Silent nodes: a monitored node with no recorded row (ok or failed) that
+//   landed in the kSilentDays days up to `as_of` (the day's last run), when a
+//   delivery was due in that time: its own schedule or cron trigger has an
+//   occurrence after its last landing whose declared landing time
+//   (occurrence + lands_after + run_time) is at or before `as_of`; a node
+//   without a schedule of its own (stream, input-triggered job) was due
+//   every day. A silent node looks like a feed that stopped, or a log that is
+//   no longer recorded.
 // - Weakest link: the node that most often starts the chain of a failing
 //   non-optional feature, counted once per failing run over the window.
 // - Drift: for every monitored source (drift.h), over the window, compared
@@ -37,13 +48,23 @@
 
 namespace readyby {
 
+/// Days without a recorded landing after which a monitored node is silent.
+inline constexpr int kSilentDays = 3;
+
 struct OnTimeRate {
   int model = -1;
   std::string at_local;      // "07:00": local run time in the model's zone
   int days = 0;              // runs evaluated
-  int on_time = 0;           // runs with status ok
+  int on_time = 0;           // runs ok or degraded
+  int degraded = 0;          // of on_time: runs degraded
   double rate = 0;           // on_time / days
   ProportionInterval interval;  // Wilson 95%
+};
+
+/// A monitored node that has gone quiet (see "Silent nodes" above).
+struct SilentNode {
+  int node = -1;
+  std::optional<Instant> last_landed_at;  // nullopt: no row in the history read
 };
 
 struct WeakestLink {
@@ -70,12 +91,22 @@ struct NightlyReport {
   std::vector<SourceDrift> drift;    // monitored sources, plan order
   std::vector<OnTimeRate> on_time;   // by model (plan order), then local time
   std::optional<WeakestLink> weakest_link;  // nullopt: no failing run in the window
+  Instant as_of;                     // the latest run of `date`; the end of `date` when it has none
+  std::vector<std::optional<Instant>> last_landed;  // by node: latest landed_at at or before as_of
+  std::vector<SilentNode> silent;    // plan order
+  /// When the check was made: set by the caller from the clock (the engine
+  /// reads none); nullopt when not known. Reports may show it.
+  std::optional<Instant> evaluated_at;
 
   /// False iff some run of `date` fails.
   bool ok() const;
   /// The chain of a feature result with each step's landing time.
   std::vector<ChainLanding> chain_landings(const FeatureResult& f) const;
 };
+
+/// "HH:MM": the local time of `t` in `zone` — how a run is named from day to
+/// day (on-time rates, metrics labels, JUnit test names).
+std::string local_run_time(Instant t, const Zone& zone);
 
 /// The earliest data_through that a nightly check of `date` with `window`
 /// can need: read history from here on.

@@ -1,7 +1,9 @@
 #include "history/store.h"
 
 #include <sqlite3.h>
+#include <sys/stat.h>
 
+#include <cctype>
 #include <chrono>
 #include <cstdlib>
 #include <thread>
@@ -53,15 +55,55 @@ class Statement {
 };
 
 std::string db_error(sqlite3* db, const std::string& doing) {
+  int code = sqlite3_errcode(db) & 0xff;
+  if (code == SQLITE_BUSY || code == SQLITE_LOCKED) {
+    return doing + ": the database stayed locked by another process for more than " +
+           std::to_string(kBusyTimeoutMs / 1000) + " s; nothing was changed, try again";
+  }
   return doing + ": " + sqlite3_errmsg(db);
 }
 
 bool exec(sqlite3* db, const char* sql, std::string* error, const char* doing) {
   char* message = nullptr;
   if (sqlite3_exec(db, sql, nullptr, nullptr, &message) == SQLITE_OK) return true;
-  *error = std::string(doing) + ": " + (message ? message : sqlite3_errmsg(db));
+  int code = sqlite3_errcode(db) & 0xff;
+  *error = (code == SQLITE_BUSY || code == SQLITE_LOCKED) ? db_error(db, doing)
+                                                           : std::string(doing) + ": " + (message ? message : sqlite3_errmsg(db));
   sqlite3_free(message);
   return false;
+}
+
+// Runs a statement that returns one row, retrying while the database is busy
+// for up to the busy timeout. Some lock upgrades (switching a new file to
+// WAL while another process opens it) report SQLITE_BUSY at once instead of
+// calling the busy handler, so the wait is done here.
+int step_waiting(sqlite3* db, const char* sql) {
+  auto deadline = std::chrono::steady_clock::now() + std::chrono::milliseconds(kBusyTimeoutMs);
+  while (true) {
+    sqlite3_stmt* st = nullptr;
+    int rc = sqlite3_prepare_v2(db, sql, -1, &st, nullptr);
+    if (rc == SQLITE_OK) rc = sqlite3_step(st);
+    sqlite3_finalize(st);
+    if ((rc & 0xff) != SQLITE_BUSY && (rc & 0xff) != SQLITE_LOCKED) return rc;
+    if (std::chrono::steady_clock::now() > deadline) return rc;
+    std::this_thread::sleep_for(std::chrono::milliseconds(5));
+  }
+}
+
+// "file:" URI of `path` for sqlite3_open_v2 with SQLITE_OPEN_URI.
+std::string file_uri(const std::string& path, const char* query) {
+  static const char kHex[] = "0123456789ABCDEF";
+  std::string uri = "file:";
+  for (unsigned char c : path) {
+    if (std::isalnum(c) || c == '/' || c == '.' || c == '-' || c == '_' || c == '~') {
+      uri += static_cast<char>(c);
+    } else {
+      uri += '%';
+      uri += kHex[c >> 4];
+      uri += kHex[c & 15];
+    }
+  }
+  return uri + "?" + query;
 }
 
 // The single integer of `sql`; nullopt on error.
@@ -110,7 +152,66 @@ int slow_record_ms() {
 
 int current_schema_version() { return static_cast<int>(std::size(kMigrations)); }
 
+std::unique_ptr<HistoryStore> HistoryStore::open_read_only(const std::string& path, std::string* error) {
+  // A plain read-only open reads a WAL database when its -shm file can be
+  // used; in a folder this user cannot write (a read-only copy, a backup), it
+  // cannot, and the file is then opened as immutable: nobody can be writing it.
+  for (const char* query : {"mode=ro", "immutable=1"}) {
+    sqlite3* db = nullptr;
+    int rc = sqlite3_open_v2(file_uri(path, query).c_str(), &db, SQLITE_OPEN_READONLY | SQLITE_OPEN_URI, nullptr);
+    if (rc != SQLITE_OK) {
+      *error = rc == SQLITE_CANTOPEN ? "no history database at '" + path + "' (record landing logs into it first)"
+                                     : "cannot open '" + path + "': " + (db ? sqlite3_errmsg(db) : sqlite3_errstr(rc));
+      sqlite3_close(db);
+      return nullptr;
+    }
+    std::unique_ptr<HistoryStore> store(new HistoryStore(db));
+    sqlite3_busy_timeout(db, kBusyTimeoutMs);
+    sqlite3_extended_result_codes(db, 1);
+    std::optional<int64_t> app = query_int(db, "PRAGMA application_id", error);
+    if (!app) {
+      int code = sqlite3_errcode(db) & 0xff;
+      if (code == SQLITE_CANTOPEN || code == SQLITE_READONLY) continue;  // try immutable
+      *error = "'" + path + "' is not an SQLite database (" + *error + ")";
+      return nullptr;
+    }
+    if (*app != 0 && *app != kApplicationId) {
+      *error = "'" + path + "' is an SQLite database of another application, not a readyby history";
+      return nullptr;
+    }
+    std::optional<int64_t> tables = query_int(db, "SELECT count(*) FROM sqlite_master", error);
+    std::optional<int64_t> migrations =
+        query_int(db, "SELECT count(*) FROM sqlite_master WHERE name = 'schema_migrations'", error);
+    if (!tables || !migrations) {
+      *error = "'" + path + "': " + *error;
+      return nullptr;
+    }
+    if (*tables == 0) {
+      // An empty file (or /dev/null): a history with nothing recorded.
+      store->empty_ = true;
+      return store;
+    }
+    if (!*migrations) {
+      *error = "'" + path + "' is an SQLite database with other tables, not a readyby history";
+      return nullptr;
+    }
+    int version = store->schema_version(error);
+    if (version < 0) return nullptr;
+    if (version > current_schema_version()) {
+      *error = "'" + path + "': the history database has schema version " + std::to_string(version) +
+               ", newer than this readyby knows (" + std::to_string(current_schema_version()) + ")";
+      return nullptr;
+    }
+    // Every released schema has the landing table that reads need.
+    store->empty_ = version == 0;
+    return store;
+  }
+  *error = "cannot read '" + path + "'";
+  return nullptr;
+}
+
 std::unique_ptr<HistoryStore> HistoryStore::open(const std::string& path, Mode mode, std::string* error) {
+  if (mode == Mode::read_only) return open_read_only(path, error);
   sqlite3* db = nullptr;
   int flags = SQLITE_OPEN_READWRITE | (mode == Mode::create ? SQLITE_OPEN_CREATE : 0);
   int rc = sqlite3_open_v2(path.c_str(), &db, flags, nullptr);
@@ -124,6 +225,11 @@ std::unique_ptr<HistoryStore> HistoryStore::open(const std::string& path, Mode m
   std::unique_ptr<HistoryStore> store(new HistoryStore(db));
   sqlite3_busy_timeout(db, kBusyTimeoutMs);
   sqlite3_extended_result_codes(db, 1);
+  struct stat st {};
+  if (::stat(path.c_str(), &st) == 0 && !S_ISREG(st.st_mode)) {
+    *error = "'" + path + "' is not a regular file; record needs a database file it can write";
+    return nullptr;
+  }
   std::optional<int64_t> app = query_int(db, "PRAGMA application_id", error);
   if (!app) {
     *error = "'" + path + "' is not an SQLite database (" + *error + ")";
@@ -134,9 +240,8 @@ std::unique_ptr<HistoryStore> HistoryStore::open(const std::string& path, Mode m
     return nullptr;
   }
   {
-    // Switching to WAL needs a moment's exclusive access; the busy timeout covers it.
-    Statement wal(db, "PRAGMA journal_mode=WAL");
-    if (!wal || sqlite3_step(wal.get()) != SQLITE_ROW) {
+    // Switching to WAL needs a moment's exclusive access: wait for it.
+    if (step_waiting(db, "PRAGMA journal_mode=WAL") != SQLITE_ROW) {
       *error = db_error(db, "setting the WAL journal on '" + path + "'");
       return nullptr;
     }
@@ -250,6 +355,10 @@ std::optional<int64_t> HistoryStore::record(const Plan& plan, const std::vector<
 
 std::optional<History> HistoryStore::read(const Plan& plan, Instant since, std::string* error,
                                           std::vector<std::optional<Instant>>* first_data_through) {
+  if (empty_) {
+    if (first_data_through) first_data_through->assign(plan.nodes.size(), std::nullopt);
+    return History(plan.nodes.size());
+  }
   Transaction tx(db_, "BEGIN", error);
   if (!tx.ok()) return std::nullopt;
   Statement first(db_, "SELECT min(data_through) FROM landing WHERE node = ?");
@@ -300,6 +409,7 @@ std::optional<History> HistoryStore::read(const Plan& plan, Instant since, std::
 }
 
 int64_t HistoryStore::row_count(std::string* error) {
+  if (empty_) return 0;
   std::optional<int64_t> n = query_int(db_, "SELECT count(*) FROM landing", error);
   return n ? *n : -1;
 }

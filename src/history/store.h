@@ -59,12 +59,21 @@ int current_schema_version();
 
 class HistoryStore {
  public:
-  enum class Mode { create, existing };
+  /// create: open or create for writing (record). existing: open an
+  /// existing file for writing. read_only: for reading commands (nightly,
+  /// forecast, report): never writes, migrates or changes the journal mode,
+  /// so it works on a read-only file or folder; an empty file (or /dev/null)
+  /// is a history with nothing recorded.
+  enum class Mode { create, existing, read_only };
 
-  /// Opens the database at `path` (creating the file when `mode` is create),
-  /// configures WAL and the busy timeout and applies pending migrations.
-  /// nullptr with *error when the file cannot be opened or created, is not a
-  /// readyby history database, or has a newer schema.
+  /// Opens the database at `path` (creating the file when `mode` is create);
+  /// for writing modes it configures WAL (waiting out another process's lock
+  /// for up to the busy timeout) and applies pending migrations. nullptr with
+  /// *error when the file cannot be opened or created, is not a regular file
+  /// (writing modes), is not a readyby history database, or has a newer
+  /// schema. A lock held by another process for longer than the busy timeout
+  /// is reported as such ("stayed locked by another process ..."), never as
+  /// bad input.
   static std::unique_ptr<HistoryStore> open(const std::string& path, Mode mode, std::string* error);
   ~HistoryStore();
   HistoryStore(const HistoryStore&) = delete;
@@ -91,8 +100,10 @@ class HistoryStore {
 
  private:
   explicit HistoryStore(sqlite3* db) : db_(db) {}
+  static std::unique_ptr<HistoryStore> open_read_only(const std::string& path, std::string* error);
   bool migrate(std::string* error);
   sqlite3* db_;
+  bool empty_ = false;  // read-only open of a file with nothing recorded (no tables)
 };
 
 }  // namespace readyby

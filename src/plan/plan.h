@@ -43,6 +43,7 @@ struct Node {
   // Jobs and features.
   std::vector<int> inputs;          // node indices, in the order written; empty for sources
   std::optional<Cron> trigger;      // nullopt: triggered by inputs
+  SourcePos schedule_pos;           // where the schedule or cron trigger value is written
   Duration run_time;
 
   // Features.

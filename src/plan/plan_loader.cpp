@@ -9,6 +9,7 @@
 #include <unordered_map>
 
 #include "plan/lineage.h"
+#include "time/zone_names.h"
 #include "util/text.h"
 #include "util/yaml_fields.h"
 #include "util/yaml_tree.h"
@@ -72,6 +73,7 @@ class Loader {
     load();
     PlanLoadResult out;
     out.errors = diags_.sorted();
+    out.warnings = diags_.warnings();
     out.rendered = diags_.render();
     if (out.errors.empty()) out.plan = std::move(plan_);
     return out;
@@ -146,7 +148,9 @@ class Loader {
     const Zone* z = Zone::find(v->value);
     if (!z) {
       if (zone_names_.empty()) zone_names_ = Zone::names();
-      error(v->pos, "unknown time zone '" + v->value + "'" + did_you_mean(v->value, zone_names_));
+      error(v->pos, "unknown time zone '" + v->value + "'" + zone_did_you_mean(v->value, zone_names_));
+    } else if (std::string advice = legacy_zone_advice(v->value); !advice.empty()) {
+      diags_.warning(path_, v->pos, advice);
     }
     return z;
   }
@@ -202,6 +206,7 @@ class Loader {
       if (!key.is_scalar()) continue;
       Calendar cal;
       cal.name = key.value;
+      cal.line = key.pos.line;
       if (!valid_id(key.value)) error(key.pos, "invalid calendar name '" + key.value + "' (use letters, digits, '_', '.' and '-')");
       std::string what = "calendar '" + key.value + "'";
       if (body.is_map()) {
@@ -310,14 +315,15 @@ class Loader {
       error(FieldReader::key_pos(body, schedule), "'schedule' of " + what + " has no value (a cron expression, or stream)");
     } else {
       node->schedule = get_cron(*schedule, "the schedule of " + what);
+      node->schedule_pos = schedule->pos;
     }
-    if (auto d = fields_.duration(body, "lands_after", what)) node->lands_after = *d;
+    if (auto d = fields_.duration(body, "lands_after", what, kMaxTimingDurationSeconds)) node->lands_after = *d;
     if (body.find("data_lag")) {
       if (node->stream) {
         error(FieldReader::key_pos(body, body.find("data_lag")),
               "'data_lag' does not apply to the stream source '" + node->id +
                   "' (a stream's data reaches the moment it is sent; use lands_after for its delay)");
-      } else if (auto d = fields_.duration(body, "data_lag", what)) {
+      } else if (auto d = fields_.duration(body, "data_lag", what, kMaxTimingDurationSeconds)) {
         node->data_lag = *d;
       }
     }
@@ -342,10 +348,13 @@ class Loader {
     const YamlNode* trigger = body.find("trigger");
     if (trigger && !(trigger->is_scalar() && trigger->value == "inputs")) {
       if (trigger->is_null()) error(FieldReader::key_pos(body, trigger), "'trigger' of " + what + " has no value (inputs, or a cron expression)");
-      else node->trigger = get_cron(*trigger, "the trigger of " + what);
+      else {
+        node->trigger = get_cron(*trigger, "the trigger of " + what);
+        node->schedule_pos = trigger->pos;
+      }
     }
     bool cron_trigger = trigger && !(trigger->is_scalar() && trigger->value == "inputs");
-    if (auto d = fields_.duration(body, "run_time", what)) node->run_time = *d;
+    if (auto d = fields_.duration(body, "run_time", what, kMaxTimingDurationSeconds)) node->run_time = *d;
     for (const char* key : {"timezone", "calendar"}) {
       const YamlNode* v = body.find(key);
       if (v && !cron_trigger) {
@@ -362,7 +371,7 @@ class Loader {
     }
     if (node->kind != NodeKind::feature) return;
     if (body.find("max_age")) {
-      if (auto d = fields_.duration(body, "max_age", what)) node->max_age = *d;
+      if (auto d = fields_.duration(body, "max_age", what, kMaxTimingDurationSeconds)) node->max_age = *d;
     } else {
       error(node->pos, what + " is missing required key 'max_age' (how old its data may be at scoring time)");
     }
@@ -519,27 +528,39 @@ class Loader {
   }
 
   // A schedule that never fires (e.g. "0 0 30 2 *", or weekdays only under a
-  // calendar that skips weekdays) can never deliver: reject it. "Never" uses
-  // the engine's horizon, counted from the moment of validation.
+  // calendar that skips weekdays) can never deliver: reject it. The test is
+  // independent of the clock: the schedule must fire in every window of the
+  // engine's horizon (cron.h fires_in_every_window). The error points at the
+  // schedule (or the run's `at`) and names the calendar's line.
   void check_schedules_fire() {
-    Instant now = std::chrono::time_point_cast<Seconds>(std::chrono::system_clock::now());
+    auto silence = [&](const SilenceCheck& check, int calendar) {
+      std::string text = " never fires";
+      if (calendar >= 0) {
+        const Calendar& cal = plan_.calendar(calendar);
+        text += " under calendar '" + cal.name + "' (defined at line " + std::to_string(cal.line) + ")";
+      }
+      if (check.after) {
+        text += ": no occurrence within 1,462 days after " + format_rfc3339(*check.after, nullptr);
+      } else {
+        text += " (no occurrence within 1,462 days)";
+      }
+      return text;
+    };
     for (const Node& node : plan_.nodes) {
       const std::optional<Cron>& cron = node.schedule ? node.schedule : node.trigger;
       if (!cron || !node.zone) continue;
-      if (!next_occurrence(*cron, *node.zone, plan_.calendar(node.calendar), now)) {
-        error(node.pos, std::string(node.schedule ? "the schedule" : "the trigger") + " '" + cron->text + "' of " +
-                            to_string(node.kind) + " '" + node.id + "' never fires" +
-                            (node.calendar >= 0 ? " under calendar '" + plan_.calendar(node.calendar).name + "'" : "") +
-                            " (no occurrence within 1,462 days)");
+      SilenceCheck check = fires_in_every_window(*cron, *node.zone, plan_.calendar(node.calendar));
+      if (!check.fires) {
+        error(node.schedule_pos, std::string(node.schedule ? "the schedule" : "the trigger") + " '" + cron->text +
+                                     "' of " + to_string(node.kind) + " '" + node.id + "'" + silence(check, node.calendar));
       }
     }
     for (const Model& model : plan_.models) {
       for (const RunSpec& run : model.runs) {
         if (!model.zone) continue;
-        if (!next_occurrence(run.at, *model.zone, plan_.calendar(run.calendar), now)) {
-          error(run.pos, "the run '" + run.at.text + "' of model '" + model.id + "' never fires" +
-                             (run.calendar >= 0 ? " under calendar '" + plan_.calendar(run.calendar).name + "'" : "") +
-                             " (no occurrence within 1,462 days)");
+        SilenceCheck check = fires_in_every_window(run.at, *model.zone, plan_.calendar(run.calendar));
+        if (!check.fires) {
+          error(run.pos, "the run '" + run.at.text + "' of model '" + model.id + "'" + silence(check, run.calendar));
         }
       }
     }

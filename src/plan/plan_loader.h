@@ -21,7 +21,10 @@ namespace readyby {
 struct PlanLoadResult {
   std::optional<Plan> plan;         // set iff `errors` is empty
   std::vector<Diagnostic> errors;   // sorted by position
-  std::string rendered;             // errors with source lines and carets, for stderr
+  /// Problems that do not stop the plan from loading (a legacy zone name such
+  /// as EST), sorted by position; a valid plan may have warnings.
+  std::vector<Diagnostic> warnings;
+  std::string rendered;             // errors and warnings with source lines and carets, for stderr
 };
 
 /// Loads the plan in `text`, naming it `path` in diagnostics.

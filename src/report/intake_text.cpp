@@ -1,14 +1,31 @@
 #include "report/intake_report.h"
 
+#include <algorithm>
+
 namespace readyby {
 
 namespace {
 
-// Pads to `width` characters (UTF-8 aware), always leaving one space after.
-std::string pad(const std::string& s, size_t width) {
+// Characters of `s` (UTF-8 code points).
+size_t chars_of(const std::string& s) {
   size_t chars = 0;
   for (unsigned char c : s) chars += (c & 0xC0) != 0x80;
+  return chars;
+}
+
+// Pads to `width` characters (UTF-8 aware), always leaving one space after.
+std::string pad(const std::string& s, size_t width) {
+  size_t chars = chars_of(s);
   return chars >= width ? s + " " : s + std::string(width - chars, ' ');
+}
+
+// The width of a column: at least `min`, and one more than its longest cell,
+// so that long names push the columns after them instead of breaking them.
+template <typename Rows, typename Cell>
+size_t column_width(const Rows& rows, size_t min, Cell cell) {
+  size_t width = min;
+  for (const auto& row : rows) width = std::max(width, chars_of(cell(row)) + 1);
+  return width;
 }
 
 std::string join(const std::vector<std::string>& items, const char* sep) {
@@ -43,13 +60,19 @@ void reuse_section(const IntakeReport& r, std::string* out) {
   const ReuseReport& reuse = r.reuse;
   *out += "\nestablished scores: " + reuse.summary + "\n";
   size_t related = 0;
+  std::vector<const Candidate*> listed;
   for (const Candidate& c : reuse.candidates) {
-    if (c.coverage == Coverage::related) {
-      ++related;
-      continue;
-    }
-    *out += "  #" + std::to_string(c.rank) + " " + pad(c.entry->name, 34) + pad("[" + c.entry->id + "]", 26) +
-            pad(to_string(c.coverage), 7) + (c.in_house ? "in-house" : c.entry->kind) + "\n";
+    if (c.coverage == Coverage::related) ++related;
+    else listed.push_back(&c);
+  }
+  const size_t rank_w = column_width(listed, 3, [](const Candidate* c) { return "#" + std::to_string(c->rank); });
+  const size_t name_w = column_width(listed, 34, [](const Candidate* c) { return c->entry->name; });
+  const size_t id_w = column_width(listed, 26, [](const Candidate* c) { return "[" + c->entry->id + "]"; });
+  const size_t coverage_w = column_width(listed, 7, [](const Candidate* c) { return std::string(to_string(c->coverage)); });
+  for (const Candidate* c : listed) {
+    *out += "  " + pad("#" + std::to_string(c->rank), rank_w) + pad(c->entry->name, name_w) +
+            pad("[" + c->entry->id + "]", id_w) + pad(to_string(c->coverage), coverage_w) +
+            (c->in_house ? "in-house" : c->entry->kind) + "\n";
   }
   if (related) *out += "  (" + std::to_string(related) + " related entries only; see 'readyby reuse')\n";
 }
@@ -59,17 +82,26 @@ void feasibility_section(const IntakeReport& r, std::string* out) {
   if (f.candidates.empty()) return;
   *out += "\ncan they run on this plan? (inputs checked at the " + std::to_string(f.runs.size()) + " runs of " +
           r.timing.model + ")\n";
+  std::vector<const InputCheck*> all;
+  for (const CandidateCheck& c : f.candidates) {
+    for (const InputCheck& in : c.inputs) all.push_back(&in);
+  }
+  auto age = [](const InputCheck* in) { return in->available() ? human_duration(in->allowed_age.seconds) : "—"; };
+  const size_t element_w = column_width(all, 32, [](const InputCheck* in) { return in->element; });
+  const size_t feature_w =
+      column_width(all, 22, [](const InputCheck* in) { return in->available() ? in->feature_id : "—"; });
+  const size_t age_w = column_width(all, 7, age);
   for (const CandidateCheck& c : f.candidates) {
     *out += "  " + c.entry->name + " [" + c.entry->id + "] " + to_string(c.coverage) +
             " — computable: " + to_string(c.computable) + "\n";
-    *out += "    " + pad("element", 32) + pad("feature", 22) + pad("age", 7) + "status\n";
+    *out += "    " + pad("element", element_w) + pad("feature", feature_w) + pad("age", age_w) + "status\n";
     for (const InputCheck& in : c.inputs) {
       std::string status = to_string(in.status);
       if (in.status == InputStatus::late || (in.status == InputStatus::unstructured && !in.late_runs.empty())) {
         status += " " + in.late_when;
       }
-      *out += "    " + pad(in.element, 32) + pad(in.available() ? in.feature_id : "—", 22) +
-              pad(in.available() ? human_duration(in.allowed_age.seconds) : "—", 7) + status + "\n";
+      *out += "    " + pad(in.element, element_w) + pad(in.available() ? in.feature_id : "—", feature_w) +
+              pad(age(&in), age_w) + status + "\n";
     }
   }
 }

@@ -79,6 +79,14 @@ void write_nightly_json(std::ostream& out, const Plan& plan, const NightlyReport
   for (size_t i = 0; i < report.unmonitored.size(); ++i) {
     out << (i ? ", " : "") << json_quote(id_of(plan, report.unmonitored[i]));
   }
+  out << "],\n \"silent_after_days\": " << kSilentDays << ", \"silent\": [";
+  for (size_t i = 0; i < report.silent.size(); ++i) {
+    const SilentNode& q = report.silent[i];
+    out << (i ? ", " : "") << "{\"node\": " << json_quote(id_of(plan, q.node)) << ", \"last_landed_at\": ";
+    if (q.last_landed_at) out << '"' << format_rfc3339(*q.last_landed_at, plan.zone) << '"';
+    else out << "null";
+    out << "}";
+  }
   out << "],\n \"drift\": [";
   for (size_t i = 0; i < report.drift.size(); ++i) {
     const SourceDrift& d = report.drift[i];
@@ -96,7 +104,7 @@ void write_nightly_json(std::ostream& out, const Plan& plan, const NightlyReport
     const OnTimeRate& r = report.on_time[i];
     out << (i ? ",\n  " : "\n  ") << "{\"model\": " << json_quote(plan.models[static_cast<size_t>(r.model)].id)
         << ", \"at_local\": " << json_quote(r.at_local) << ", \"days\": " << r.days << ", \"on_time\": " << r.on_time
-        << ", \"rate\": " << number(r.rate) << ", \"low\": " << number(r.interval.low)
+        << ", \"degraded\": " << r.degraded << ", \"rate\": " << number(r.rate) << ", \"low\": " << number(r.interval.low)
         << ", \"high\": " << number(r.interval.high) << "}";
   }
   out << "],\n \"weakest_link\": ";

@@ -16,6 +16,11 @@ namespace readyby {
 /// "ok" | "late" | "not-landed".
 const char* nightly_status(FeatureStatus s);
 
+/// "no landing of NODE recorded for 3 days (last YYYY-MM-DD HH:MM ±HH:MM) though
+/// one was due: has the feed stopped, or is its log no longer recorded?", with
+/// times in `zone`.
+std::string silent_warning(const Plan& plan, const SilentNode& silent, const Zone* zone);
+
 /// The text report: the day's runs with each failing feature's chain of
 /// landings, unmonitored sources, drift, on-time rates and the weakest link.
 void write_nightly_text(std::ostream& out, const Plan& plan, const NightlyReport& report);
@@ -27,11 +32,17 @@ void write_nightly_json(std::ostream& out, const Plan& plan, const NightlyReport
 
 /// JUnit XML: one <testsuite> for the day, one <testcase> per run; a failing
 /// run carries a <failure> whose text is the chain of each failing feature.
+/// Names do not change from night to night: the suite is "readyby nightly
+/// PLAN", a test case "MODEL at HH:MM" (local run time) in class PLAN.MODEL;
+/// the date is a property of the suite. Silent nodes are in <system-err>.
 void write_nightly_junit(std::ostream& out, const Plan& plan, const NightlyReport& report);
 
-/// OpenMetrics text format: slack per feature of the day's runs, on-time rate
-/// per model run time, landing offsets and trend per monitored source; ends
-/// with `# EOF`.
+/// OpenMetrics text format: when it was evaluated and which date, slack and
+/// landed flag per feature and ok / degraded flags per run of the day, on-time
+/// rate per model run time, last landing and silent flag per monitored node,
+/// landing offsets and trend per monitored source; ends with `# EOF`. Labels
+/// carry no dates: a run is labelled with its local time (`run="06:30"`), so
+/// each series continues from night to night.
 void write_nightly_metrics(std::ostream& out, const Plan& plan, const NightlyReport& report);
 
 }  // namespace readyby

@@ -55,6 +55,13 @@ void write_run(std::ostream& out, const Plan& plan, const NightlyReport& report,
 
 }  // namespace
 
+std::string silent_warning(const Plan& plan, const SilentNode& silent, const Zone* zone) {
+  std::string out = "no landing of " + id_of(plan, silent.node) + " recorded for " + std::to_string(kSilentDays) +
+                    " days (last ";
+  out += silent.last_landed_at ? local_with_offset(*silent.last_landed_at, zone) : std::string("before the history read");
+  return out + ") though one was due: has the feed stopped, or is its log no longer recorded?";
+}
+
 void write_nightly_text(std::ostream& out, const Plan& plan, const NightlyReport& report) {
   const Evaluation& ev = report.evaluation;
   const int days = static_cast<int>((report.date - report.window_from).count()) + 1;
@@ -66,6 +73,8 @@ void write_nightly_text(std::ostream& out, const Plan& plan, const NightlyReport
   out << "runs on " << format_date(report.date) << "\n";
   if (report.today.empty()) out << "  (no runs)\n";
   for (size_t i : report.today) write_run(out, plan, report, ev.runs[i]);
+  if (!report.silent.empty()) out << "\n";
+  for (const SilentNode& q : report.silent) out << "warning: " << silent_warning(plan, q, plan.zone) << "\n";
 
   out << "\nunmonitored sources (no landings recorded; their declared schedule is used):";
   if (report.unmonitored.empty()) out << " none";
@@ -86,11 +95,13 @@ void write_nightly_text(std::ostream& out, const Plan& plan, const NightlyReport
     if (d.drifting) out << "      DRIFTING: " << d.reason << "\n";
   }
 
-  out << "\non-time rate per model run time (runs ok / evaluated, Wilson 95% interval)\n";
+  out << "\non-time rate per model run time (runs ok or degraded / evaluated, Wilson 95% interval)\n";
   for (const OnTimeRate& r : report.on_time) {
     out << "  " << plan.models[static_cast<size_t>(r.model)].id << " " << r.at_local << ": " << r.on_time << "/"
         << r.days << " = " << percent(r.rate) << " (" << percent(r.interval.low) << " to " << percent(r.interval.high)
-        << ")\n";
+        << ")";
+    if (r.degraded > 0) out << "; " << r.degraded << " degraded";
+    out << "\n";
   }
   if (report.weakest_link) {
     const WeakestLink& w = *report.weakest_link;

@@ -18,6 +18,7 @@ struct Calendar {
   std::string name;                  // empty for "no calendar"
   uint8_t skip_weekdays = 0;         // bit w set: skip weekday w (0 = Sunday .. 6 = Saturday)
   std::vector<LocalDays> skip_dates; // sorted, unique
+  int line = 0;                      // where it is defined in its file; 0: unknown
 
   /// True when local date `day` is skipped.
   bool skips(LocalDays day) const;

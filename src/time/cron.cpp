@@ -319,4 +319,32 @@ std::optional<Instant> previous_occurrence(const Cron& schedule, const Zone& zon
   return std::nullopt;
 }
 
+SilenceCheck fires_in_every_window(const Cron& schedule, const Zone& zone, const Calendar& calendar) {
+  SilenceCheck out;
+  Calendar pattern = calendar;
+  pattern.skip_dates.clear();
+  const Instant anchor = from_unix(978307200);  // 2001-01-01T00:00:00Z
+  if (!next_occurrence(schedule, zone, pattern, anchor)) {
+    out.fires = false;
+    return out;
+  }
+  // Each skipped date lies in a gap between two surviving occurrences; the
+  // gap must stay within the horizon. Dates inside a gap already measured
+  // are skipped.
+  std::optional<Instant> measured_until;
+  for (LocalDays day : calendar.skip_dates) {
+    Instant t = zone.from_local(LocalTime(day.time_since_epoch()));
+    if (measured_until && t <= *measured_until) continue;
+    std::optional<Instant> before = previous_occurrence(schedule, zone, calendar, t);
+    std::optional<Instant> after = next_occurrence(schedule, zone, calendar, t);
+    if (!before || !after || (*after - *before).count() > kSearchHorizonSeconds) {
+      out.fires = false;
+      out.after = before ? *before : t;
+      return out;
+    }
+    measured_until = after;
+  }
+  return out;
+}
+
 }  // namespace readyby

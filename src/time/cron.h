@@ -69,4 +69,21 @@ std::optional<Instant> next_occurrence(const Cron& schedule, const Zone& zone, c
 std::optional<Instant> previous_occurrence(const Cron& schedule, const Zone& zone, const Calendar& calendar,
                                            Instant at);
 
+/// The result of fires_in_every_window.
+struct SilenceCheck {
+  bool fires = true;              // true: every window of the horizon holds an occurrence
+  std::optional<Instant> after;   // when `fires` is false: the start of a silent window, if known
+};
+
+/// Whether `schedule` fires at least once in *every* window of
+/// kSearchHorizonSeconds (1,462 days), whatever the current date — so the
+/// answer never depends on the clock. Exact for the finite `skip_dates` of
+/// `calendar` (each gap between surviving occurrences that contains a skipped
+/// date is measured); the weekly and yearly pattern without skip dates is
+/// checked from 2001-01-01, which finds any month/day and weekday
+/// combination (29 February included: 2004). One known exception is
+/// accepted: a schedule that fires only on 29 February is silent for eight
+/// years around 2100, a year without one.
+SilenceCheck fires_in_every_window(const Cron& schedule, const Zone& zone, const Calendar& calendar);
+
 }  // namespace readyby

@@ -84,6 +84,7 @@ DurationParse parse_duration(std::string_view text) {
     int64_t mult = in_time ? kTimeMult[rank] : kDateMult[rank];
     if (n > std::numeric_limits<int64_t>::max() / mult / 4) return fail("duration is too large", start);
     total += n * mult;
+    if (total > kMaxDurationSeconds) return fail("duration is longer than 36,525 days (P36525D)", start);
     if (!in_time && unit == 'W') weeks = true; else other = true;
     any_part = true;
     ++i;

@@ -21,6 +21,15 @@ struct Duration {
   friend auto operator<=>(Duration, Duration) = default;
 };
 
+/// The longest duration parse_duration accepts: 36,525 days (a century), so
+/// that sums of durations and instants can never overflow.
+inline constexpr int64_t kMaxDurationSeconds = 36525LL * 86400;
+/// The longest duration a plan may add to or subtract from an instant
+/// (lands_after, data_lag, run_time, max_age, and the edits of what-if):
+/// 1,462 days, the horizon of the freshness engine (DESIGN §4). `history` and
+/// `lookback` are only compared with each other and may be longer.
+inline constexpr int64_t kMaxTimingDurationSeconds = 1462LL * 86400;
+
 /// Result of parsing a duration: either a value, or an error message and the
 /// 0-based offset in the text of the offending character.
 struct DurationParse {
@@ -31,7 +40,8 @@ struct DurationParse {
 
 /// Parses `text` as described above. On failure `value` is empty and `error`
 /// says what is wrong ("years and months are not allowed ...", "negative
-/// durations are not allowed", "expected a number after 'T'" ...).
+/// durations are not allowed", "expected a number after 'T'", "longer than
+/// 36,525 days" ...).
 DurationParse parse_duration(std::string_view text);
 
 /// Shortest ISO 8601 form: `PnW` when a whole number of weeks (and > 0), else

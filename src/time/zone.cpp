@@ -5,15 +5,32 @@
 
 #include <algorithm>
 #include <cstdio>
+#include <cstdlib>
+#include <fstream>
+#include <iterator>
 #include <map>
 #include <mutex>
+
+#include "time/posix_tz.h"
 
 namespace readyby {
 namespace {
 
-// The span copied from the tz database: wide enough for any plan horizon.
+// The span copied from the tz database (see zone.h kZoneTableFirstYear).
 constexpr int64_t kTableStart = -2208988800;  // 1900-01-01T00:00:00Z
-constexpr int64_t kTableEnd = 4102444800;     // 2100-01-01T00:00:00Z
+constexpr int64_t kTableEnd = 7258118400;     // 2200-01-01T00:00:00Z
+
+// The TZ rule at the end of the zone's compiled file, if it has one.
+std::optional<PosixTzRule> footer_rule(const std::string& name) {
+  const char* dir = std::getenv("TZDIR");
+  std::string path = std::string(dir && *dir ? dir : "/usr/share/zoneinfo") + "/" + name;
+  std::ifstream in(path, std::ios::binary);
+  if (!in) return std::nullopt;
+  std::string data((std::istreambuf_iterator<char>(in)), std::istreambuf_iterator<char>());
+  std::optional<std::string> footer = tzif_footer(data);
+  if (!footer) return std::nullopt;
+  return parse_posix_tz(*footer);
+}
 
 std::mutex& cache_mutex() {
   static std::mutex m;
@@ -34,8 +51,24 @@ Zone::Zone(std::string name) : name_(std::move(name)) {
       begin_.push_back(b);
       offset_.push_back(info.offset.count());
     }
-    if (info.end <= t) break;
+    if (info.end <= t || info.end.time_since_epoch().count() >= kTableEnd) break;
     t = info.end;
+  }
+  // After the last transition written out in the file, the tz database
+  // follows the file's POSIX TZ rule (RFC 8536 §3.3); date/tz does not, so
+  // the table is extended here with that rule's transitions up to kTableEnd.
+  if (t.time_since_epoch().count() < kTableEnd) {
+    if (std::optional<PosixTzRule> rule = footer_rule(name_); rule && rule->has_dst) {
+      int64_t last = std::max(begin_.back(), t.time_since_epoch().count());
+      int first_year = static_cast<int>(date::year_month_day(date::floor<date::days>(date::sys_seconds(Seconds(last)))).year());
+      for (int year = first_year; year < 2200; ++year) {
+        for (const auto& [at, offset] : rule->transitions(year)) {
+          if (at <= last || at >= kTableEnd || offset == offset_.back()) continue;
+          begin_.push_back(at);
+          offset_.push_back(offset);
+        }
+      }
+    }
   }
   for (size_t i = 0; i < begin_.size(); ++i) local_begin_.push_back(begin_[i] + offset_[i]);
   local_begin_[0] = begin_[0];
@@ -123,6 +156,13 @@ std::string format_rfc3339(Instant t, const Zone* zone) {
   return out + buf;
 }
 
+std::string unsupported_date(LocalDays day) {
+  int year = static_cast<int>(date::year_month_day(day).year());
+  if (year >= kFirstSupportedYear && year <= kLastSupportedYear) return "";
+  return format_date(day) + " is outside the supported dates " + std::to_string(kFirstSupportedYear) + "-01-01 to " +
+         std::to_string(kLastSupportedYear) + "-12-31 (the span of the time-zone tables)";
+}
+
 std::string format_local(LocalTime t) {
   auto day = date::floor<date::days>(t);
   date::year_month_day ymd{day};
@@ -204,6 +244,17 @@ std::optional<LocalTime> parse_local_datetime(std::string_view text) {
 std::optional<Instant> parse_rfc3339(std::string_view text) {
   auto ymd = ymd_at(text);
   if (!ymd || text.size() < 20 || (text[10] != 'T' && text[10] != 't' && text[10] != ' ')) return std::nullopt;
+  // Years 0001-9999 only, so that every instant read can be written back.
+  if (static_cast<int>(ymd->year()) < 1) return std::nullopt;
+  // A leap second (RFC 3339 §5.6 allows time-second 60) is read as the
+  // second before it: instants here are POSIX time, which has no leap seconds.
+  std::string copy;
+  if (text.size() >= 19 && text[16] == ':' && text.substr(17, 2) == "60") {
+    copy = std::string(text);
+    copy[18] = '9';
+    copy[17] = '5';
+    text = copy;
+  }
   int64_t secs = 0;
   size_t used = time_at(text, 11, true, &secs);
   if (used == 0) return std::nullopt;

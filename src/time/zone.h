@@ -8,11 +8,13 @@
 // fall-back is its *first* occurrence. (date/tz's choose::earliest maps a gap
 // time to the end of the gap instead, which is not that rule.)
 //
-// The zone's offset history is copied once into flat arrays, so lookups are a
-// binary search with no locking. date/tz reads the compiled TZif files and
-// does not extend them with their POSIX footer, so rules after the last
-// explicit transition in the file (2037 in Debian's tzdata) stay as they were
-// then; readyby's horizons are far shorter.
+// The zone's offset history, from 1900 to 2199, is copied once into flat
+// arrays, so lookups are a binary search with no locking. date/tz reads the
+// compiled TZif files but does not apply the POSIX TZ rule at their end,
+// which the tz database uses after the last transition written out (2037 in
+// Debian's tzdata); readyby extends the table with that rule (posix_tz.h), so
+// Chicago keeps its daylight saving in 2040. Windows outside the table are
+// refused by the commands (kFirstSupportedDate .. kLastSupportedDate).
 
 #include <memory>
 #include <optional>
@@ -23,6 +25,16 @@
 #include "time/instant.h"
 
 namespace readyby {
+
+/// The span of dates the commands accept as the start of a window (--from,
+/// --date, a run's time): the zone tables cover 1900-2199, a window lasts at
+/// most 3,660 days, and an occurrence may be searched for up to 1,462 days
+/// after it, so every instant the engine meets (and so every RFC 3339 time
+/// it prints) lies within the tables.
+inline constexpr int kFirstSupportedYear = 1900;
+inline constexpr int kLastSupportedYear = 2180;
+/// "" when `day` lies in the supported span, else a message saying so.
+std::string unsupported_date(LocalDays day);
 
 class Zone {
  public:
@@ -63,7 +75,9 @@ std::string format_rfc3339(Instant t, const Zone* zone);
 std::string format_local(LocalTime t);
 
 /// Parses an RFC 3339 date-time with a mandatory offset ("Z" or "±HH:MM"),
-/// seconds required, fractional seconds truncated. Nullopt on any error.
+/// seconds required, fractional seconds truncated, years 0001-9999. A leap
+/// second (":60", RFC 3339 §5.6) is read as ":59" of the same minute.
+/// Nullopt on any error.
 std::optional<Instant> parse_rfc3339(std::string_view text);
 /// Parses "YYYY-MM-DD" (a valid Gregorian date). Nullopt on any error.
 std::optional<LocalDays> parse_date(std::string_view text);

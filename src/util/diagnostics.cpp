@@ -3,28 +3,37 @@
 #include <algorithm>
 #include <tuple>
 
+#include "util/text.h"
+
 namespace readyby {
 
-std::string Diagnostic::str() const {
+std::string Diagnostic::str(std::string_view severity) const {
   std::string out = path;
   if (pos.line > 0) {
     out += ':' + std::to_string(pos.line) + ':' + std::to_string(pos.column);
   }
-  out += ": error: ";
+  out += ": ";
+  out += severity;
+  out += ": ";
   out += message;
-  return out;
+  return printable(out);
 }
 
 void Diagnostics::error(const std::string& path, SourcePos pos, std::string message) {
   list_.push_back({path, pos, std::move(message)});
 }
 
+void Diagnostics::warning(const std::string& path, SourcePos pos, std::string message) {
+  warnings_.push_back({path, pos, std::move(message)});
+}
+
 void Diagnostics::add_source(const std::string& path, std::string text) {
   sources_.emplace_back(path, std::move(text));
 }
 
-std::vector<Diagnostic> Diagnostics::sorted() const {
-  std::vector<Diagnostic> out = list_;
+namespace {
+
+std::vector<Diagnostic> sorted_unique(std::vector<Diagnostic> out) {
   std::stable_sort(out.begin(), out.end(), [](const Diagnostic& a, const Diagnostic& b) {
     return std::tie(a.path, a.pos.line, a.pos.column) < std::tie(b.path, b.pos.line, b.pos.column);
   });
@@ -36,6 +45,12 @@ std::vector<Diagnostic> Diagnostics::sorted() const {
             out.end());
   return out;
 }
+
+}  // namespace
+
+std::vector<Diagnostic> Diagnostics::sorted() const { return sorted_unique(list_); }
+
+std::vector<Diagnostic> Diagnostics::warnings() const { return sorted_unique(warnings_); }
 
 std::string_view source_line(std::string_view text, int line) {
   if (line < 1) return {};
@@ -52,9 +67,16 @@ std::string_view source_line(std::string_view text, int line) {
 }
 
 std::string Diagnostics::render() const {
+  std::vector<std::pair<Diagnostic, const char*>> all;
+  for (Diagnostic& d : sorted()) all.emplace_back(std::move(d), "error");
+  for (Diagnostic& d : warnings()) all.emplace_back(std::move(d), "warning");
+  std::stable_sort(all.begin(), all.end(), [](const auto& a, const auto& b) {
+    return std::tie(a.first.path, a.first.pos.line, a.first.pos.column) <
+           std::tie(b.first.path, b.first.pos.line, b.first.pos.column);
+  });
   std::string out;
-  for (const Diagnostic& d : sorted()) {
-    out += d.str();
+  for (const auto& [d, severity] : all) {
+    out += d.str(severity);
     out += '\n';
     if (d.pos.line <= 0) continue;
     for (const auto& [path, text] : sources_) {
@@ -62,7 +84,7 @@ std::string Diagnostics::render() const {
       std::string_view line = source_line(text, d.pos.line);
       if (line.empty() && d.pos.line > 1) break;
       out += "  ";
-      out += line;
+      out += printable(line);
       out += "\n  ";
       // Keep tabs so the caret lines up under the same column.
       for (int i = 1; i < d.pos.column && static_cast<size_t>(i - 1) < line.size(); ++i) {

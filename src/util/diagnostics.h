@@ -27,7 +27,9 @@ struct Diagnostic {
 
   /// `PATH:LINE:COL: error: MESSAGE` (or `PATH: error: MESSAGE` when the
   /// position is unknown). No trailing newline.
-  std::string str() const;
+  std::string str() const { return str("error"); }
+  /// The same with another severity word, e.g. "warning".
+  std::string str(std::string_view severity) const;
 };
 
 /// The errors found in one or more files, plus the source text needed to show
@@ -36,6 +38,11 @@ struct Diagnostic {
 class Diagnostics {
  public:
   void error(const std::string& path, SourcePos pos, std::string message);
+  /// A warning: printed like an error with `warning:`, but kept apart —
+  /// empty(), size(), list() and sorted() are about errors only.
+  void warning(const std::string& path, SourcePos pos, std::string message);
+  /// The warnings, sorted and deduplicated like sorted().
+  std::vector<Diagnostic> warnings() const;
   /// Registers the text of `path` so that `render` can quote its lines.
   void add_source(const std::string& path, std::string text);
 
@@ -47,11 +54,13 @@ class Diagnostics {
   std::vector<Diagnostic> sorted() const;
 
   /// Every diagnostic as `str()`, each followed by its source line and a caret
-  /// line when the source is known. Ends with a newline when not empty.
+  /// line when the source is known, errors and warnings together in position
+  /// order. Ends with a newline when not empty.
   std::string render() const;
 
  private:
   std::vector<Diagnostic> list_;
+  std::vector<Diagnostic> warnings_;
   std::vector<std::pair<std::string, std::string>> sources_;
 };
 

@@ -128,7 +128,8 @@ std::optional<std::string> FieldReader::choice(const YamlNode& map, const char* 
   return std::nullopt;
 }
 
-std::optional<Duration> FieldReader::duration(const YamlNode& map, const char* key, const std::string& what) {
+std::optional<Duration> FieldReader::duration(const YamlNode& map, const char* key, const std::string& what,
+                                              int64_t max_seconds) {
   const YamlNode* v = map.find(key);
   if (!v) return std::nullopt;
   const std::string field = "'" + std::string(key) + "' of " + what;
@@ -148,6 +149,12 @@ std::optional<Duration> FieldReader::duration(const YamlNode& map, const char* k
   DurationParse d = parse_duration(v->value);
   if (!d.value) {
     error(inside(*v, d.offset), "bad duration '" + v->value + "' for '" + key + "' of " + what + ": " + d.error);
+    return std::nullopt;
+  }
+  if (d.value->seconds > max_seconds) {
+    error(v->pos, "'" + std::string(key) + "' of " + what + " is " + v->value + ", longer than " +
+                      std::to_string(max_seconds / 86400) + " days, the longest a plan's timing may span (P" +
+                      std::to_string(max_seconds / 86400) + "D)");
     return std::nullopt;
   }
   return d.value;

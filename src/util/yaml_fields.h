@@ -42,7 +42,9 @@ class FieldReader {
   std::optional<std::string> choice(const YamlNode& map, const char* key, const std::string& what,
                                     const std::vector<std::string>& choices);
   /// An ISO 8601 duration (duration.h).
-  std::optional<Duration> duration(const YamlNode& map, const char* key, const std::string& what);
+  /// An ISO 8601 duration; longer than `max_seconds` is an error at the value.
+  std::optional<Duration> duration(const YamlNode& map, const char* key, const std::string& what,
+                                   int64_t max_seconds = kMaxDurationSeconds);
 
   /// Position of the key whose value is `value` in `map` (the map's own position if not found).
   static SourcePos key_pos(const YamlNode& map, const YamlNode* value);

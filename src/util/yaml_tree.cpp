@@ -5,6 +5,7 @@
 #include <yaml-cpp/parser.h>
 
 #include <algorithm>
+#include <cstdio>
 #include <map>
 #include <sstream>
 
@@ -54,6 +55,7 @@ class TreeBuilder : public YAML::EventHandler {
   void OnScalar(const YAML::Mark& mark, const std::string& tag, YAML::anchor_t anchor,
                 const std::string& value) override {
     if (tag != "?") check_closing_quote(mark);
+    check_control_characters(mark, value);
     YamlNode n;
     n.kind = YamlNode::Kind::scalar;
     n.pos = to_pos(mark);
@@ -124,6 +126,19 @@ class TreeBuilder : public YAML::EventHandler {
     }
     throw StopParsing{to_pos(mark), std::string("this quoted value has no closing ") + quote +
                                         " before the end of the file"};
+  }
+  // Text values are printed in reports: a control character (ESC, BEL ...)
+  // written as a "\e"-style escape or a raw byte could drive the reader's
+  // terminal. None has a use in a plan, a proposal or a catalogue entry.
+  void check_control_characters(const YAML::Mark& mark, const std::string& value) {
+    for (unsigned char c : value) {
+      if ((c < 0x20 && c != '\t' && c != '\n' && c != '\r') || c == 0x7F) {
+        char code[8];
+        std::snprintf(code, sizeof code, "%04X", c);
+        throw StopParsing{to_pos(mark), std::string("control character U+") + code +
+                                            " in a text value; write plain text (use \\n only for line breaks)"};
+      }
+    }
   }
   void add(YamlNode n, YAML::anchor_t anchor, size_t size = 1) {
     ++nodes_;
