@@ -35,6 +35,8 @@ def main():
     ap.add_argument("--hourly-models", type=int, default=50)
     ap.add_argument("--depth", type=int, default=32)
     ap.add_argument("--seed", type=int, default=1)
+    ap.add_argument("--max-age-extra-hours", type=int, default=0,
+                    help="added to every feature's max_age, so that more runs are on time (margins need ok runs)")
     a = ap.parse_args()
     rng = random.Random(a.seed)
     out = sys.stdout
@@ -98,7 +100,11 @@ def main():
             layer -= 1
         fid = f"feat{i}"
         w(f"  {fid}:\n    inputs: [{', '.join(inputs_for(layer))}]\n")
-        w(f"    max_age: {rng.choice(['PT2H', 'PT6H', 'PT26H', 'PT30H', 'P2D', 'P8D'])}\n")
+        max_age = rng.choice(['PT2H', 'PT6H', 'PT26H', 'PT30H', 'P2D', 'P8D'])
+        if a.max_age_extra_hours:
+            hours = {'PT2H': 2, 'PT6H': 6, 'PT26H': 26, 'PT30H': 30, 'P2D': 48, 'P8D': 192}[max_age]
+            max_age = f"PT{hours + a.max_age_extra_hours}H"
+        w(f"    max_age: {max_age}\n")
         if rng.random() < 0.1:
             w("    optional: true\n")
         if rng.random() < 0.05:

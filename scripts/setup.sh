@@ -6,7 +6,8 @@ set -euo pipefail
 cd "$(dirname "$0")/.."
 
 PACKAGES=(g++ cmake make pkg-config tzdata libyaml-cpp-dev libboost-graph-dev libsqlite3-dev
-          libre2-dev libhowardhinnant-date-dev catch2 python3 libxml2-utils)
+          libre2-dev libhowardhinnant-date-dev catch2 python3 libxml2-utils
+          libgraphviz-dev chromium python3-html5lib)
 
 missing=()
 for p in "${PACKAGES[@]}"; do

@@ -355,3 +355,36 @@ TEST_CASE("nightly: silent nodes are warned about on stderr for machine formats;
   CHECK(text.err.empty());
   fs::remove_all(dir);
 }
+
+TEST_CASE("check --run blames the step late on its own account and shows a verified fix") {
+  // The stream adt_events landed long before census_snapshot started; the
+  // snapshot's 02:30 start fell in the daylight-saving gap (tz database:
+  // America/Chicago, 2026-03-08) and ran at 03:30: it is the cause.
+  Outcome o = run("check " + kDemo + " --run discharge_delay@2026-03-08T06:30");
+  CHECK(o.out.find("adt_events                  source   2026-03-07 17:35 -06:00  — before its data        -           -\n") !=
+        std::string::npos);
+  CHECK(o.out.find("census_snapshot             job      2026-03-08 04:45 -05:00  2026-03-08 04:30 -05:00  15m         -  ← cause") !=
+        std::string::npos);
+  CHECK(o.out.find("cause: job 'census_snapshot' starts at 03:30 (its 02:30 start falls in the daylight-saving gap that day)") !=
+        std::string::npos);
+  CHECK(o.out.find("fix: job 'census_snapshot' would have to start 15m earlier (\"30 2 * * *\" -> \"15 2 * * *\")") !=
+        std::string::npos);
+  CHECK(o.out.find("re-checked: the run of this pattern ok; no other run changes") != std::string::npos);
+  Outcome json = run("check " + kDemo + " --run discharge_delay@2026-03-08T06:30 --format json");
+  CHECK(json.out.find(R"("cause": {"node": "census_snapshot", "kind": "late-start")") != std::string::npos);
+  CHECK(json.out.find(R"("edit": {"kind": "schedule", "node": "census_snapshot", "cron": "15 2 * * *", "text": "schedule census_snapshot=15 2 * * *"})") !=
+        std::string::npos);
+}
+
+TEST_CASE("check --run at a time that is not a scheduled run says so and names the nearest runs") {
+  Outcome o = run("check " + kDemo + " --run discharge_delay@2026-03-08T06:40");
+  CHECK(o.out.find("note: 2026-03-08 06:40 is not a scheduled run of model discharge_delay (runs at \"30 6 * * *\"); "
+                   "nearest scheduled runs: 2026-03-08 06:30 -05:00 before, 2026-03-09 06:30 -05:00 after") !=
+        std::string::npos);
+  CHECK(o.out.find("unscheduled run of model discharge_delay at 2026-03-08 06:40 -05:00") != std::string::npos);
+  Outcome json = run("check " + kDemo + " --run discharge_delay@2026-03-08T06:40 --format json");
+  CHECK(json.out.find(R"("scheduled": false, "previous_run": "2026-03-08T06:30:00-05:00", "next_run": "2026-03-09T06:30:00-05:00")") !=
+        std::string::npos);
+  Outcome scheduled = run("check " + kDemo + " --run discharge_delay@2026-03-09T06:30 --format json");
+  CHECK(scheduled.out.find(R"("scheduled": true, "previous_run": null, "next_run": null)") != std::string::npos);
+}

@@ -234,7 +234,12 @@ TEST_CASE("intake golden: readmit-30d — LACE covers and runs on time: reuse an
   CHECK(doc.str("timing.patterns[0].cheapest.kind") == "move-start");
   CHECK(doc.str("timing.patterns[0].cheapest.node") == "hie_merge");
   CHECK(doc.num("timing.patterns[0].cheapest.seconds") == 1800);
-  CHECK(doc.num("timing.patterns[0].start_later.seconds") == 20 * 3600 + 10 * 60);
+  // Every fix is re-checked on the pattern's runs before it is shown.
+  CHECK(doc.str("timing.patterns[0].cheapest.edit") == "schedule hie_merge=30 3 * * *");
+  CHECK(doc.str("timing.patterns[0].cheapest.effect") == "re-checked: all 10 runs of this pattern ok; no other run changes");
+  // A later start would be 20h 10m: past midnight, which a weekday-calendar
+  // run time cannot move to as one cron expression, so none is offered.
+  CHECK(doc.is_null("timing.patterns[0].start_later"));
 
   // Reuse: the `reuse` object, unchanged.
   CHECK(doc.str("reuse.recommendation") == "reuse");
@@ -344,7 +349,7 @@ TEST_CASE("intake text and markdown carry the decision, its reasons and the caut
   CHECK(md.out.find("**Recommendation: fix-data-plan-first.**") != std::string::npos);
   CHECK(md.out.find("| runs | ok | degraded | failed | tightest slack |\n|---:|---:|---:|---:|---|\n| 28 | 23 | 0 | 5 | -50m") !=
         std::string::npos);
-  CHECK(md.out.find("| fails every Monday (4 of 4 Monday runs) | 4 | `bed_board` → `planned_discharges` | 'bed_board' lands") !=
+  CHECK(md.out.find("| fails every Monday (4 of 4 Monday runs) | 4 | `bed_board` → `planned_discharges` | 'bed_board' would have to land by 06:30 instead of 07:20 (50m earlier)") !=
         std::string::npos);
   CHECK(md.out.find("#### Cautions") != std::string::npos);
   CHECK(md.out.find("readyby gives no clinical advice") != std::string::npos);

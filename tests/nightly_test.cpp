@@ -7,6 +7,7 @@
 #include <set>
 #include <sstream>
 
+#include "engine/edit.h"
 #include "history/nightly.h"
 #include "history_helpers.h"
 #include "plan/plan_loader.h"
@@ -126,6 +127,31 @@ TEST_CASE("nightly: monitored, unmonitored and job-completion nodes (hand-comput
   CHECK(r.ok());
   REQUIRE(r.unmonitored.size() == 1);
   CHECK(plan.nodes[static_cast<size_t>(r.unmonitored[0])].id == "feed_b");
+}
+
+TEST_CASE("nightly: a run that is not ok gets its cause and a verified fix") {
+  Plan plan = load(kPlan);
+  History history = tiny_history(plan);
+  NightlyReport r = evaluate_nightly(plan, history, first_through(history), *parse_date("2026-03-02"), 1);
+  // The 06:00 run is degraded: job_c's recorded completion came at 07:00.
+  REQUIRE(r.advice.size() == 1);
+  const NightlyReport::RunAdvice& a = r.advice[0];
+  CHECK(a.run == r.today[0]);
+  CHECK(a.pattern.status == RunStatus::degraded);
+  CHECK(plan.nodes[static_cast<size_t>(a.pattern.blame.cause_node())].id == "job_c");
+  CHECK(a.pattern.blame.kind == CauseKind::late_delivery);
+  CHECK(a.pattern.blame.steps[0].recorded);
+  // job_c runs 5 minutes: it cannot finish an hour sooner. Starting the run
+  // at 07:00 finds every feature ready (f_c exactly at 07:00).
+  REQUIRE(a.fixes.fixes.size() == 1);
+  CHECK(edit_text(plan, a.fixes.fixes[0].edit) == "runs m=0 7 * * *");
+  CHECK(a.fixes.fixes[0].seconds == 3600);
+  std::ostringstream text;
+  write_nightly_text(text, plan, r);
+  CHECK(text.str().find("      cause: job 'job_c' lands at 07:00, 1h 00m after the latest landing that keeps the run on "
+                        "time (06:00)\n") != std::string::npos);
+  CHECK(text.str().find("      fix: start the runs of 'm' 1h 00m later (\"0 6 * * *\" -> \"0 7 * * *\") [runs m=0 7 * * *]\n"
+                        "           re-checked: the run of this pattern ok; no other run changes\n") != std::string::npos);
 }
 
 TEST_CASE("nightly: a monitored node with no qualifying delivery is not landed") {

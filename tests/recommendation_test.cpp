@@ -58,13 +58,13 @@ TimingSummary failing() {
   TimingPattern monday;
   monday.description = "fails every Monday (4 of 4 Monday runs)";
   monday.runs = 4;
-  monday.data_fix = TimingFix{TimingFix::Kind::land_earlier, "bed_board", 3000, "'bed_board' must land 50m earlier"};
-  monday.later_start = TimingFix{TimingFix::Kind::start_later, "m", 3000, "start the runs of 'm' 50m later"};
+  monday.data_fix = TimingFix{TimingFix::Kind::land_earlier, "bed_board", 3000, "'bed_board' must land 50m earlier", "", "", false};
+  monday.later_start = TimingFix{TimingFix::Kind::start_later, "m", 3000, "start the runs of 'm' 50m later", "", "", false};
   monday.cheapest = monday.data_fix;
   TimingPattern dst;
   dst.description = "fails on 2026-03-08, a daylight-saving change";
   dst.runs = 1;
-  dst.later_start = TimingFix{TimingFix::Kind::start_later, "m", 900, "start the runs of 'm' 15m later"};
+  dst.later_start = TimingFix{TimingFix::Kind::start_later, "m", 900, "start the runs of 'm' 15m later", "", "", false};
   dst.cheapest = dst.later_start;
   t.patterns = {monday, dst};
   return t;

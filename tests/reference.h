@@ -68,6 +68,7 @@ class Freshness {
   Result at(int n, Instant w) {
     const Node& node = plan_.nodes[static_cast<size_t>(n)];
     const Calendar& cal = plan_.calendar(node.calendar);
+    if (node.fails) return {std::nullopt, {n}};  // DESIGN §9 `fail`: the node never lands
     if (node.kind == NodeKind::source) {
       if (node.stream) return {w + Seconds(node.lands_after.seconds), {n}};
       auto s = next(*node.schedule, node.zone->name(), cal, w + Seconds(node.data_lag.seconds));

@@ -5,6 +5,7 @@
 #include "cli/commands.h"
 #include "cli/options.h"
 #include "engine/check.h"
+#include "engine/explain.h"
 #include "plan/plan_loader.h"
 #include "report/check_json.h"
 #include "report/check_text.h"
@@ -47,7 +48,7 @@ std::string parse_check_args(const std::vector<std::string>& args, CheckOptions*
   return "";
 }
 
-int explain_run(const Plan& plan, const CheckOptions& o) {
+int explain_one_run(const Plan& plan, const CheckOptions& o) {
   const Command& self = command_named("check");
   size_t at = o.run.find('@');
   std::string model_id = o.run.substr(0, at);
@@ -65,10 +66,11 @@ int explain_run(const Plan& plan, const CheckOptions& o) {
     return usage_error("--run " + bad, self.usage);
   }
   const Zone* zone = plan.models[static_cast<size_t>(model)].zone;
-  Evaluation ev = evaluate_single(plan, model, zone->from_local(*local));
-  if (o.format == "json") write_run_explanation_json(std::cout, plan, ev);
-  else write_run_explanation_text(std::cout, plan, ev, TextStyle{use_colour()});
-  return ev.ok() ? kExitOk : kExitFindings;
+  // The fixes' effects are re-checked over --days local dates around the run.
+  RunExplanation x = explain_run(plan, model, zone->from_local(*local), o.days);
+  if (o.format == "json") write_run_explanation_json(std::cout, plan, x);
+  else write_run_explanation_text(std::cout, plan, x, TextStyle{use_colour()});
+  return x.run.status == RunStatus::fail ? kExitFindings : kExitOk;
 }
 
 }  // namespace
@@ -82,17 +84,13 @@ int cmd_check(const std::vector<std::string>& args) {
   std::optional<Plan> loaded = load_plan_or_report(o.plan_path);
   if (!loaded) return kExitBadInput;
   const Plan& plan = *loaded;
-  if (!o.run.empty()) return explain_run(plan, o);
+  if (!o.run.empty()) return explain_one_run(plan, o);
   if (!o.from) o.from = today_in(*plan.zone);
-  if (o.format == "json") {
-    // JSON needs no grouping: compute each run as it is written.
-    Evaluation ev = evaluate_lazily(plan, *o.from, o.days);
-    write_check_json(std::cout, plan, ev);
-    std::cout.flush();
-    return ev.ok() ? kExitOk : kExitFindings;
-  }
-  Evaluation ev = evaluate(plan, *o.from, o.days);
-  write_check_text(std::cout, plan, ev, TextStyle{use_colour()});
+  // Each run is computed as the report reads it; the writers keep only the
+  // runs that are not ok, to group them into patterns.
+  Evaluation ev = evaluate_lazily(plan, *o.from, o.days);
+  if (o.format == "json") write_check_json(std::cout, plan, ev);
+  else write_check_text(std::cout, plan, ev, TextStyle{use_colour()});
   std::cout.flush();
   return ev.ok() ? kExitOk : kExitFindings;
 }

@@ -30,9 +30,14 @@ int cmd_validate(const std::vector<std::string>& args);
 int cmd_check(const std::vector<std::string>& args);
 int cmd_record(const std::vector<std::string>& args);
 int cmd_nightly(const std::vector<std::string>& args);
+int cmd_forecast(const std::vector<std::string>& args);
 int cmd_catalog(const std::vector<std::string>& args);
 int cmd_reuse(const std::vector<std::string>& args);
 int cmd_intake(const std::vector<std::string>& args);
+int cmd_what_if(const std::vector<std::string>& args);
+int cmd_margins(const std::vector<std::string>& args);
+int cmd_impact(const std::vector<std::string>& args);
+int cmd_report(const std::vector<std::string>& args);
 
 /// True when `args` asks for help (-h / --help); prints `usage` then.
 bool wants_help(const std::vector<std::string>& args, const char* usage);

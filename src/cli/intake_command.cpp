@@ -12,6 +12,7 @@
 #include "cli/commands.h"
 #include "cli/options.h"
 #include "engine/check.h"
+#include "history/store.h"
 #include "intake/intake.h"
 #include "plan/plan_loader.h"
 #include "report/intake_report.h"
@@ -28,6 +29,7 @@ struct IntakeOptions {
   int days = 28;
   std::string format = "text";
   std::vector<std::string> registries;
+  std::string db_path;  // empty: no forecast
 };
 
 // Parses intake's arguments; returns an error message or "".
@@ -36,7 +38,11 @@ std::string parse_intake_args(std::vector<std::string> args, IntakeOptions* o) {
   for (size_t i = 0; i < args.size(); ++i) {
     const std::string& a = args[i];
     std::string error;
-    if (take_window(args, &i, &o->from, &o->days, &error) ||
+    if (is_option(a, "--db")) {
+      auto v = option_value(args, &i, "--db");
+      if (!v || v->empty()) return "--db needs a FILE";
+      o->db_path = *v;
+    } else if (take_window(args, &i, &o->from, &o->days, &error) ||
         take_format(args, &i, {"text", "json", "markdown"}, &o->format, &error)) {
       if (!error.empty()) return error;
     } else if (a.starts_with("-")) {
@@ -157,6 +163,15 @@ int cmd_intake(const std::vector<std::string>& args) {
   }
   ReuseReport reuse = match_proposal(*proposal, resolution, session.vocabulary, entries);
   IntakeReport report = screen_intake(*proposal, plan, model, *o.from, o.days, std::move(reuse), session.vocabulary);
+  if (!o.db_path.empty()) {
+    std::unique_ptr<HistoryStore> store = HistoryStore::open(o.db_path, HistoryStore::Mode::existing, &error);
+    std::optional<History> history = store ? store->read(plan, from_unix(0), &error) : std::nullopt;
+    if (!history) {
+      std::cerr << "readyby: " << o.db_path << ": " << error << "\n";
+      return kExitBadInput;
+    }
+    report.forecast = forecast_intake(plan, model, *o.from, o.days, report.feasibility, *history, ForecastOptions{});
+  }
   std::string out = o.format == "json"       ? intake_json(report)
                     : o.format == "markdown" ? intake_markdown(report)
                                              : intake_text(report);

@@ -83,12 +83,14 @@ namespace {
 
 using PendingRun = Evaluation::PendingRun;
 
+}  // namespace
+
 // One run, every feature: needs_data_through, ready_at, slack, status.
-RunResult evaluate_run(const Plan& plan, const FreshnessEngine& engine, const PendingRun& p) {
-  const Model& model = plan.models[static_cast<size_t>(p.model)];
+RunResult evaluate_run(const Plan& plan, const FreshnessEngine& engine, int model_index, Instant at) {
+  const Model& model = plan.models[static_cast<size_t>(model_index)];
   RunResult run;
-  run.model = p.model;
-  run.at = p.at;
+  run.model = model_index;
+  run.at = at;
   run.features.reserve(model.features.size());
   bool fail = false, degraded = false;
   for (int f : model.features) {
@@ -96,12 +98,12 @@ RunResult evaluate_run(const Plan& plan, const FreshnessEngine& engine, const Pe
     FeatureResult fr;
     fr.feature = f;
     fr.optional = feature.optional;
-    fr.needs_data_through = p.at - Seconds(feature.max_age.seconds);
+    fr.needs_data_through = at - Seconds(feature.max_age.seconds);
     fr.ready_at = engine.ready(f, fr.needs_data_through);
     if (!fr.ready_at) {
       fr.status = FeatureStatus::never;
     } else {
-      fr.slack_seconds = (p.at - *fr.ready_at).count();
+      fr.slack_seconds = (at - *fr.ready_at).count();
       fr.status = fr.slack_seconds >= 0 ? FeatureStatus::ok : FeatureStatus::late;
     }
     if (fr.status != FeatureStatus::ok) (feature.optional ? degraded : fail) = true;
@@ -110,6 +112,21 @@ RunResult evaluate_run(const Plan& plan, const FreshnessEngine& engine, const Pe
   run.status = fail ? RunStatus::fail : degraded ? RunStatus::degraded : RunStatus::ok;
   return run;
 }
+
+std::pair<int64_t, int64_t> query_range(const Plan& plan, const std::vector<std::pair<int, Instant>>& runs) {
+  int64_t w_lo = INT64_MAX, w_hi = INT64_MIN;
+  for (const auto& [model, at] : runs) {
+    for (int f : plan.models[static_cast<size_t>(model)].features) {
+      int64_t w = to_unix(at) - plan.nodes[static_cast<size_t>(f)].max_age.seconds;
+      w_lo = std::min(w_lo, w);
+      w_hi = std::max(w_hi, w);
+    }
+  }
+  if (w_lo > w_hi) w_lo = w_hi = 0;
+  return {w_lo, w_hi + kLaterStartSearch};
+}
+
+namespace {
 
 Evaluation evaluate_runs(const Plan& plan, std::vector<PendingRun> pending, const ObservedDeliveries* observed,
                          bool store) {
@@ -124,20 +141,16 @@ Evaluation evaluate_runs(const Plan& plan, std::vector<PendingRun> pending, cons
   for (const Model& m : plan.models) model_features.insert(model_features.end(), m.features.begin(), m.features.end());
   std::vector<bool> needed = ev.lineage_->upstream_mask(model_features);
 
-  int64_t w_lo = INT64_MAX, w_hi = INT64_MIN;
-  for (const PendingRun& p : pending) {
-    for (int f : plan.models[static_cast<size_t>(p.model)].features) {
-      int64_t w = to_unix(p.at) - plan.nodes[static_cast<size_t>(f)].max_age.seconds;
-      w_lo = std::min(w_lo, w);
-      w_hi = std::max(w_hi, w);
-    }
-  }
-  if (w_lo > w_hi) w_lo = w_hi = 0;
-  ev.engine_ = std::make_unique<FreshnessEngine>(plan, *ev.lineage_, needed, from_unix(w_lo),
-                                                 from_unix(w_hi + kLaterStartSearch), observed);
+  std::vector<std::pair<int, Instant>> instants;
+  instants.reserve(pending.size());
+  for (const PendingRun& p : pending) instants.emplace_back(p.model, p.at);
+  auto [w_lo, w_hi] = query_range(plan, instants);
+  ev.engine_ = std::make_unique<FreshnessEngine>(plan, *ev.lineage_, needed, from_unix(w_lo), from_unix(w_hi),
+                                                 observed);
   if (store) ev.runs.reserve(pending.size());
   for (const PendingRun& p : pending) {
-    RunResult run = evaluate_run(plan, *ev.engine_, p);
+    if (!store && ev.failed_) break;  // a lazy evaluation only needs to know whether some run fails
+    RunResult run = evaluate_run(plan, *ev.engine_, p.model, p.at);
     ev.failed_ = ev.failed_ || run.status == RunStatus::fail;
     if (store) ev.runs.push_back(std::move(run));
   }
@@ -156,7 +169,11 @@ std::vector<PendingRun> runs_in_window(const Plan& plan, LocalDays from, int day
 
 }  // namespace
 
-RunResult Evaluation::pending_run(size_t i) const { return evaluate_run(*plan_, *engine_, pending_[i]); }
+RunResult Evaluation::pending_run(size_t i) const {
+  return evaluate_run(*plan_, *engine_, pending_[i].model, pending_[i].at);
+}
+
+RunResult Evaluation::run_at(int model, Instant at) const { return evaluate_run(*plan_, *engine_, model, at); }
 
 Evaluation evaluate(const Plan& plan, LocalDays from, int days, const ObservedDeliveries* observed) {
   Evaluation ev = evaluate_runs(plan, runs_in_window(plan, from, days), observed, true);

@@ -6,6 +6,7 @@
 #include <memory>
 #include <optional>
 #include <string>
+#include <utility>
 #include <vector>
 
 #include "engine/freshness.h"
@@ -60,6 +61,10 @@ class Evaluation {
   /// i-th, computed on demand, in the same order as `runs` would hold them.
   size_t pending_count() const { return pending_.size(); }
   RunResult pending_run(size_t i) const;
+  /// A run of `model` at `at` evaluated with this evaluation's engine (`at`
+  /// need not be a scheduled run, but its features' needs_data_through must
+  /// lie in the evaluated range, which reaches kLaterStartSearch past the window).
+  RunResult run_at(int model, Instant at) const;
   /// The chain behind a feature result: node indices from a source to the feature.
   std::vector<int> chain(const FeatureResult& f) const { return engine_->chain(f.feature, f.needs_data_through); }
   /// E_n(w) for any node upstream of a model feature, w within the evaluated range.
@@ -89,7 +94,8 @@ Evaluation evaluate(const Plan& plan, LocalDays from, int days, const ObservedDe
 
 /// Like evaluate, but keeps only the run instants: `runs` stays empty and
 /// each run is computed when asked for (pending_run), so memory does not
-/// grow with the number of runs. ok() is known at once.
+/// grow with the number of runs. ok() is known at once (the runs are
+/// evaluated up to the first that fails).
 Evaluation evaluate_lazily(const Plan& plan, LocalDays from, int days);
 
 /// The runs of one model at one instant, evaluated alone (for --run). The
@@ -98,6 +104,16 @@ Evaluation evaluate_single(const Plan& plan, int model, Instant at);
 
 /// Runs of `model` with local date in [from, from + days): their instants, sorted.
 std::vector<Instant> run_instants(const Plan& plan, const Model& model, LocalDays from, int days);
+
+/// One run of model `model` at `at`, every feature, with E taken from
+/// `engine`, which must answer every w = at - max_age of the model's features.
+RunResult evaluate_run(const Plan& plan, const FreshnessEngine& engine, int model, Instant at);
+
+/// The range of w, [first, second] in unix seconds, that evaluate() builds
+/// profiles for when it evaluates runs at `runs` (model index, instant):
+/// every w = run - max_age, with kLaterStartSearch added at the top. {0, 0 +
+/// kLaterStartSearch} when there are no runs.
+std::pair<int64_t, int64_t> query_range(const Plan& plan, const std::vector<std::pair<int, Instant>>& runs);
 
 /// Plan-wide findings (lookback, unused).
 std::vector<Finding> plan_findings(const Plan& plan, const Lineage& lineage);

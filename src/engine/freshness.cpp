@@ -30,19 +30,71 @@ void Profile::push(ProfilePiece piece) {
 
 FreshnessEngine::FreshnessEngine(const Plan& plan, const Lineage& lineage, const std::vector<bool>& needed,
                                  Instant w_from, Instant w_to, const ObservedDeliveries* observed)
-    : plan_(plan), profiles_(plan.nodes.size()), lo_(to_unix(w_from)), hi_(to_unix(w_to)) {
+    : plan_(plan), observed_(observed), profiles_(plan.nodes.size()), lo_(to_unix(w_from)), hi_(to_unix(w_to)) {
   for (int n : lineage.topological_order()) {
-    if (!needed[static_cast<size_t>(n)]) continue;
-    if (observed && static_cast<size_t>(n) < observed->size() && (*observed)[static_cast<size_t>(n)]) {
-      build_observed(n, *(*observed)[static_cast<size_t>(n)]);
-    } else if (plan_.nodes[static_cast<size_t>(n)].kind == NodeKind::source) build_source(n, lo_, hi_);
-    else build_derived(n);
+    if (needed[static_cast<size_t>(n)]) build(n);
+  }
+}
+
+FreshnessEngine::FreshnessEngine(const FreshnessEngine& base, const Plan& plan, const std::vector<int>& edited,
+                                 const std::vector<int>& cone)
+    : plan_(plan), observed_(base.observed_), base_(&base), slot_(plan.nodes.size(), -1), lo_(base.lo_), hi_(base.hi_) {
+  std::vector<bool> must(plan.nodes.size(), false);
+  for (int n : edited) must[static_cast<size_t>(n)] = true;
+  for (int n : cone) {
+    if (!base.has_profile(n)) continue;
+    bool rebuild = must[static_cast<size_t>(n)];
+    for (int i : plan_.nodes[static_cast<size_t>(n)].inputs) rebuild = rebuild || slot_[static_cast<size_t>(i)] >= 0;
+    if (!rebuild) continue;
+    slot_[static_cast<size_t>(n)] = static_cast<int32_t>(profiles_.size());
+    profiles_.emplace_back();
+    build(n);
+    if (!differs_from_base(n)) {
+      profiles_.pop_back();
+      slot_[static_cast<size_t>(n)] = -1;
+    }
+  }
+}
+
+bool FreshnessEngine::differs_from_base(int n) const {
+  const std::vector<ProfilePiece>& mine = profiles_[static_cast<size_t>(slot_[static_cast<size_t>(n)])].pieces();
+  const std::vector<ProfilePiece>& theirs = base_->profile(n).pieces();
+  if (mine.size() != theirs.size()) return true;
+  for (size_t i = 0; i < mine.size(); ++i) {
+    const ProfilePiece& a = mine[i];
+    const ProfilePiece& b = theirs[i];
+    if (a.upto != b.upto || a.kind != b.kind || a.via != b.via || (a.kind != Kind::never && a.value != b.value)) {
+      return true;
+    }
+  }
+  return false;
+}
+
+const Profile& FreshnessEngine::own_profile(int n) const {
+  int32_t slot = slot_[static_cast<size_t>(n)];
+  return slot >= 0 ? profiles_[static_cast<size_t>(slot)] : base_->profile(n);
+}
+
+Profile& FreshnessEngine::profile_to_build(int n) {
+  return profiles_[static_cast<size_t>(base_ ? slot_[static_cast<size_t>(n)] : n)];
+}
+
+void FreshnessEngine::build(int n) {
+  const Node& node = plan_.nodes[static_cast<size_t>(n)];
+  if (node.fails) {
+    profile_to_build(n).push({kForever, 0, -1, Kind::never});
+  } else if (observed_ && static_cast<size_t>(n) < observed_->size() && (*observed_)[static_cast<size_t>(n)]) {
+    build_observed(n, *(*observed_)[static_cast<size_t>(n)]);
+  } else if (node.kind == NodeKind::source) {
+    build_source(n, lo_, hi_);
+  } else {
+    build_derived(n);
   }
 }
 
 void FreshnessEngine::build_source(int n, int64_t lo, int64_t hi) {
   const Node& node = plan_.nodes[static_cast<size_t>(n)];
-  Profile& p = profiles_[static_cast<size_t>(n)];
+  Profile& p = profile_to_build(n);
   const int64_t lands_after = node.lands_after.seconds;
   if (node.stream) {
     p.push({kForever, lands_after, -1, Kind::shifted});
@@ -74,13 +126,22 @@ void FreshnessEngine::build_observed(int n, const std::vector<Delivery>& deliver
   // E(w) = min landed_at over deliveries with data_through >= w: for w in
   // (d_{k-1}, d_k] (distinct data_through values, ascending) it is the
   // minimum landed_at over deliveries with data_through >= d_k.
+  // An edited copy of the plan shifts every recorded landing by the change of
+  // the node's declared lateness (a `delay` edit).
+  const Node& node = plan_.nodes[static_cast<size_t>(n)];
+  int64_t shift = 0;
+  if (base_) {
+    const Node& original = base_->plan_.nodes[static_cast<size_t>(n)];
+    shift = node.kind == NodeKind::source ? node.lands_after.seconds - original.lands_after.seconds
+                                          : node.run_time.seconds - original.run_time.seconds;
+  }
   std::vector<Delivery> sorted = deliveries;
   std::sort(sorted.begin(), sorted.end(),
             [](const Delivery& a, const Delivery& b) { return a.data_through < b.data_through; });
   std::vector<ProfilePiece> reversed;
   int64_t best = kForever;
   for (size_t i = sorted.size(); i-- > 0;) {
-    best = std::min(best, to_unix(sorted[i].landed_at));
+    best = std::min(best, to_unix(sorted[i].landed_at) + shift);
     int64_t through = to_unix(sorted[i].data_through);
     if (!reversed.empty() && reversed.back().upto == through) {
       reversed.back().value = best;
@@ -88,7 +149,7 @@ void FreshnessEngine::build_observed(int n, const std::vector<Delivery>& deliver
       reversed.push_back({through, best, -1, Kind::constant});
     }
   }
-  Profile& p = profiles_[static_cast<size_t>(n)];
+  Profile& p = profile_to_build(n);
   for (size_t i = reversed.size(); i-- > 0;) p.push(reversed[i]);
   p.push({kForever, 0, -1, Kind::never});
 }
@@ -128,7 +189,7 @@ void FreshnessEngine::build_derived(int n) {
   const Node& node = plan_.nodes[static_cast<size_t>(n)];
   const size_t k = node.inputs.size();
   std::vector<const std::vector<ProfilePiece>*> inputs(k);
-  for (size_t i = 0; i < k; ++i) inputs[i] = &profiles_[static_cast<size_t>(node.inputs[i])].pieces();
+  for (size_t i = 0; i < k; ++i) inputs[i] = &profile(node.inputs[i]).pieces();
   std::vector<size_t> index(k, 0);
   std::vector<const ProfilePiece*> current(k);
   Profile max_of_inputs;
@@ -147,7 +208,7 @@ void FreshnessEngine::build_derived(int n) {
     }
     lo = hi;
   }
-  Profile& out = profiles_[static_cast<size_t>(n)];
+  Profile& out = profile_to_build(n);
   if (node.trigger) {
     apply_trigger(n, max_of_inputs, &out);
     return;
@@ -208,7 +269,7 @@ void FreshnessEngine::apply_trigger(int n, const Profile& m, Profile* out) {
 }
 
 std::optional<Instant> FreshnessEngine::ready(int node, Instant w) const {
-  return profiles_[static_cast<size_t>(node)].at(to_unix(w)).ready;
+  return profile(node).at(to_unix(w)).ready;
 }
 
 std::vector<int> FreshnessEngine::chain(int node, Instant w) const {
@@ -216,12 +277,18 @@ std::vector<int> FreshnessEngine::chain(int node, Instant w) const {
   int n = node;
   while (true) {
     out.push_back(n);
-    Profile::Value v = profiles_[static_cast<size_t>(n)].at(to_unix(w));
+    Profile::Value v = profile(n).at(to_unix(w));
     if (v.via < 0) break;
     n = plan_.nodes[static_cast<size_t>(n)].inputs[static_cast<size_t>(v.via)];
   }
   std::reverse(out.begin(), out.end());
   return out;
+}
+
+size_t FreshnessEngine::own_profile_count() const {
+  size_t total = 0;
+  for (const Profile& p : profiles_) total += p.pieces().empty() ? 0 : 1;
+  return total;
 }
 
 size_t FreshnessEngine::piece_count() const {

@@ -98,17 +98,66 @@ class FreshnessEngine {
   /// The chain behind E_n(w): node ids' indices from a source to `node`.
   std::vector<int> chain(int node, Instant w) const;
 
-  /// Total number of profile pieces held (for benchmarks and tests).
+  /// An engine for `plan`, an edited copy of `base`'s plan (same nodes in the
+  /// same order, same inputs; schedules, triggers, lands_after, run_time and
+  /// `fails` may differ), sharing every profile it can with `base`. `edited`
+  /// lists the nodes whose own timing differs from `base`'s plan; `cone` lists,
+  /// in topological order, those nodes and every node downstream of them (see
+  /// DownstreamCones). The profile of an edited node is rebuilt; a node of the
+  /// cone is rebuilt only when one of its inputs' profiles changed, and a
+  /// rebuilt profile equal to `base`'s is dropped in favour of it. Nodes that
+  /// `base` holds no profile for are skipped. The range of w and the recorded
+  /// deliveries are those of `base`; a monitored node keeps its recorded
+  /// deliveries, shifted by the change of its lands_after (sources) or
+  /// run_time (jobs, features), and never lands when it `fails`. Answers equal
+  /// those of an engine built from scratch on `plan` over the same range.
+  /// `base` (and what it refers to) and `plan` must outlive this engine.
+  FreshnessEngine(const FreshnessEngine& base, const Plan& plan, const std::vector<int>& edited,
+                  const std::vector<int>& cone);
+
+  /// The recorded deliveries given at construction (nullptr when none).
+  const ObservedDeliveries* observed() const { return observed_; }
+  /// The queried range of w given at construction (unix seconds, inclusive).
+  int64_t range_from() const { return lo_; }
+  int64_t range_to() const { return hi_; }
+  /// Whether this engine holds (or shares) a profile for `node`.
+  bool has_profile(int node) const { return !profile(node).pieces().empty(); }
+
+  /// Total number of profile pieces held (for benchmarks and tests); an
+  /// engine built from another counts only the profiles it holds itself
+  /// (those that differ from its base's).
   size_t piece_count() const;
-  const Profile& profile(int node) const { return profiles_[static_cast<size_t>(node)]; }
+  /// Whether this engine holds its own profile of `node`: always for a built
+  /// node of an engine built from a plan; for one built from another engine,
+  /// exactly when the node's profile differs from the base's.
+  bool owns_profile(int node) const {
+    return base_ ? slot_[static_cast<size_t>(node)] >= 0 : has_profile(node);
+  }
+  /// Nodes whose profile this engine holds itself rather than sharing it
+  /// with its base (all built nodes for an engine built from a plan).
+  size_t own_profile_count() const;
+  const Profile& profile(int node) const {
+    if (!base_) return profiles_[static_cast<size_t>(node)];
+    return own_profile(node);
+  }
 
  private:
+  const Profile& own_profile(int node) const;
+  Profile& profile_to_build(int node);
+  bool differs_from_base(int node) const;
+  void build(int node);
   void build_source(int node, int64_t lo, int64_t hi);
   void build_observed(int node, const std::vector<Delivery>& deliveries);
   void build_derived(int node);
   void apply_trigger(int node, const Profile& max_of_inputs, Profile* out);
 
   const Plan& plan_;
+  const ObservedDeliveries* observed_ = nullptr;
+  // A built engine holds every profile in `profiles_` (index = node). An
+  // engine built from another holds only the profiles that changed:
+  // `slot_[node]` is the index into `profiles_`, -1 for a shared profile.
+  const FreshnessEngine* base_ = nullptr;
+  std::vector<int32_t> slot_;
   std::vector<Profile> profiles_;
   int64_t lo_, hi_;
 };

@@ -191,6 +191,20 @@ NightlyReport evaluate_nightly(const Plan& plan, const History& history,
     for (size_t i : report.today) report.as_of = std::max(report.as_of, report.evaluation.runs[i].at);
   }
   find_silent(plan, history, &report);
+  {
+    PatternCollector collector(plan, report.evaluation, &report.monitored);
+    collect_runs(report.evaluation, &collector);
+    FixFinder finder(collector);
+    for (size_t i : report.today) {
+      const RunResult& run = report.evaluation.runs[i];
+      if (run.status == RunStatus::ok) continue;
+      NightlyReport::RunAdvice a;
+      a.run = i;
+      a.pattern = collector.single_run(run.model, run.at, run.status);
+      a.fixes = finder.find(a.pattern);
+      report.advice.push_back(std::move(a));
+    }
+  }
   report.on_time = on_time_rates(plan, report.evaluation);
   report.weakest_link = weakest_link(plan, report.evaluation);
   const std::vector<std::optional<int64_t>> slack = current_slack(plan, report.evaluation);

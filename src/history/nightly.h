@@ -35,12 +35,18 @@
 //   non-optional feature, counted once per failing run over the window.
 // - Drift: for every monitored source (drift.h), over the window, compared
 //   with the slack of the latest run whose ok feature's chain starts there.
+// - Advice: each run of `date` that is not ok, as a one-run pattern with the
+//   blame of its worst feature (engine/blame.h: a recorded node is a leaf of
+//   its chain) and its verified fixes (engine/fixes.h), whose effects are
+//   re-checked over the window's runs.
 
 #include <optional>
 #include <string>
 #include <vector>
 
 #include "engine/check.h"
+#include "engine/fixes.h"
+#include "engine/patterns.h"
 #include "history/drift.h"
 #include "history/stats.h"
 #include "history/store.h"
@@ -97,6 +103,12 @@ struct NightlyReport {
   /// When the check was made: set by the caller from the clock (the engine
   /// reads none); nullopt when not known. Reports may show it.
   std::optional<Instant> evaluated_at;
+  struct RunAdvice {
+    size_t run = 0;          // index into evaluation.runs (one of `today`)
+    Pattern pattern;         // the run as a one-run pattern, with its blame
+    FixSearch fixes;         // verified fixes
+  };
+  std::vector<RunAdvice> advice;     // the runs of `date` that are not ok, in order
 
   /// False iff some run of `date` fails.
   bool ok() const;

@@ -10,6 +10,7 @@
 #include "catalog/reuse.h"
 #include "catalog/vocabulary.h"
 #include "intake/feasibility.h"
+#include "intake/intake_forecast.h"
 #include "intake/recommendation.h"
 #include "intake/timing.h"
 #include "plan/plan.h"
@@ -26,6 +27,7 @@ struct IntakeReport {
   ReuseReport reuse;                    // its entries must outlive the report
   Feasibility feasibility;
   IntakeRecommendation recommendation;
+  std::optional<IntakeForecast> forecast;  // given a landing history (intake --db); see intake_forecast.h
 
   /// Exit status by DESIGN §5: 1 when some run of the model fails, else 0.
   bool timing_fails() const { return timing.failed > 0; }

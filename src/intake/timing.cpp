@@ -2,7 +2,9 @@
 
 #include <algorithm>
 
-#include "report/failure_patterns.h"
+#include "engine/fixes.h"
+#include "engine/patterns.h"
+#include "report/advice_text.h"
 
 namespace readyby {
 
@@ -32,30 +34,40 @@ std::vector<std::string> node_ids(const Plan& plan, const std::vector<int>& node
   return out;
 }
 
-TimingPattern summarise_pattern(const Plan& plan, const FailurePattern& p) {
+TimingFix timing_fix(const Plan& plan, const Pattern& p, const Fix& fix) {
+  TimingFix out;
+  out.kind = fix.kind == FixKind::land_earlier ? TimingFix::Kind::land_earlier
+             : fix.kind == FixKind::move_start ? TimingFix::Kind::move_start
+                                               : TimingFix::Kind::start_later;
+  out.node = fix.node >= 0 ? plan.nodes[static_cast<size_t>(fix.node)].id : plan.models[static_cast<size_t>(p.model)].id;
+  out.seconds = fix.seconds;
+  out.text = describe_fix(plan, p, fix);
+  out.effect = describe_effect(plan, fix);
+  out.edit = edit_text(plan, fix.edit);
+  out.breaks_others = fix.breaks_others();
+  return out;
+}
+
+TimingPattern summarise_pattern(const Plan& plan, const Pattern& p, const FixSearch& search) {
   TimingPattern out;
-  out.description = p.description;
+  out.description = describe_pattern(plan, p);
+  out.degraded = p.status == RunStatus::degraded;
   out.runs = p.runs.size();
-  out.failing_features = node_ids(plan, p.failing_features);
-  out.chain = node_ids(plan, p.critical_chain);
-  if (p.fix && p.fix->seconds > 0) {
-    TimingFix fix;
-    fix.kind = p.fix->move_start ? TimingFix::Kind::move_start : TimingFix::Kind::land_earlier;
-    fix.node = plan.nodes[static_cast<size_t>(p.fix->node)].id;
-    fix.seconds = p.fix->seconds;
-    fix.text = p.fix->text;
-    out.data_fix = std::move(fix);
+  std::vector<int> features;
+  for (const PatternFeature& f : p.features) features.push_back(f.feature);
+  out.failing_features = node_ids(plan, features);
+  std::vector<int> chain;
+  for (const BlameStep& s : p.blame.steps) chain.push_back(s.node);
+  out.chain = node_ids(plan, chain);
+  out.cause = describe_cause(plan, p.blame, plan.models[static_cast<size_t>(p.model)].zone);
+  for (const Fix& fix : search.fixes) {
+    if (fix.kind == FixKind::start_later) {
+      if (!out.later_start) out.later_start = timing_fix(plan, p, fix);
+    } else if (!out.data_fix) {
+      out.data_fix = timing_fix(plan, p, fix);
+    }
   }
-  if (p.start_later_seconds) {
-    const std::string& model = plan.models[static_cast<size_t>(p.model)].id;
-    TimingFix later;
-    later.kind = TimingFix::Kind::start_later;
-    later.node = model;
-    later.seconds = *p.start_later_seconds;
-    later.text = "start the runs of '" + model + "' " + human_duration(later.seconds) + " later" +
-                 (p.runs.size() > 1 ? " (enough for every run of this pattern)" : "");
-    out.later_start = std::move(later);
-  }
+  if (search.fixes.empty()) out.no_fix = describe_no_fix(plan, p, search);
   if (out.data_fix && (!out.later_start || out.data_fix->seconds <= out.later_start->seconds)) {
     out.cheapest = out.data_fix;
   } else {
@@ -69,31 +81,28 @@ TimingPattern summarise_pattern(const Plan& plan, const FailurePattern& p) {
 TimingSummary summarise_timing(const Plan& plan, int model, const Evaluation& ev) {
   TimingSummary out;
   out.model = plan.models[static_cast<size_t>(model)].id;
-  for (const RunResult& run : ev.runs) {
-    if (run.model != model) continue;
-    ++out.runs;
-    (run.status == RunStatus::ok ? out.ok : run.status == RunStatus::degraded ? out.degraded : out.failed)++;
-    for (const FeatureResult& f : run.features) {
-      const std::string& id = plan.nodes[static_cast<size_t>(f.feature)].id;
-      if (f.optional && f.status != FeatureStatus::ok &&
-          std::find(out.degraded_features.begin(), out.degraded_features.end(), id) == out.degraded_features.end()) {
-        out.degraded_features.push_back(id);
-      }
-      if (f.optional || f.status == FeatureStatus::never) continue;
-      if (!out.tightest_slack_seconds || f.slack_seconds < *out.tightest_slack_seconds) {
-        out.tightest_slack_seconds = f.slack_seconds;
-        out.tightest_at = run.at;
-      }
-    }
-  }
+  PatternCollector collector(plan, ev);
+  collect_runs(ev, &collector);
+  const ModelSummary& s = collector.summaries()[static_cast<size_t>(model)];
+  out.runs = s.runs;
+  out.ok = s.ok;
+  out.degraded = s.degraded;
+  out.failed = s.failed;
+  out.tightest_slack_seconds = s.tightest_required_seconds;
+  out.tightest_at = s.tightest_required_at;
+  out.tightest_optional_seconds = s.tightest_optional_seconds;
+  out.degraded_features = node_ids(plan, s.degraded_features);
   out.verdict = out.ok == out.runs                     ? TimingVerdict::on_time
                 : out.failed == out.runs && out.runs > 0 ? TimingVerdict::infeasible
                                                          : TimingVerdict::at_risk;
-  for (const FailurePattern& p : failure_patterns(plan, ev)) {
-    if (p.model == model) out.patterns.push_back(summarise_pattern(plan, p));
+  FixFinder finder(collector);
+  for (const Pattern& p : collector.patterns()) {
+    if (p.model == model) out.patterns.push_back(summarise_pattern(plan, p, finder.find(p)));
   }
-  std::stable_sort(out.patterns.begin(), out.patterns.end(),
-                   [](const TimingPattern& a, const TimingPattern& b) { return a.runs > b.runs; });
+  std::stable_sort(out.patterns.begin(), out.patterns.end(), [](const TimingPattern& a, const TimingPattern& b) {
+    if (a.degraded != b.degraded) return !a.degraded;
+    return a.runs > b.runs;
+  });
   return out;
 }
 

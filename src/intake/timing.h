@@ -1,15 +1,16 @@
 #pragma once
 // The timing half of an intake screening: one model's runs over the horizon,
-// summarised into a verdict, and each failure pattern with its cheapest fix.
-// Pure computation over an Evaluation (engine/check.h) and its failure
-// patterns (report/failure_patterns.h).
+// summarised into a verdict, and each pattern of failing or degraded runs
+// with its verified fixes (engine/patterns.h, engine/fixes.h): every fix shown
+// was re-evaluated and clears every run of its pattern (DESIGN §9). The fix
+// texts come from the shared advice sentences (report/advice_text.h).
 //
 // Verdict: `on-time` when every run is ok, `infeasible` when every run fails,
 // `at-risk` otherwise (some runs fail or are degraded).
 //
 // Cheapest fix of a pattern: of the data-plan fix (a delivery that must land
-// earlier, or a fixed job start that must move — for the pattern's worst run)
-// and starting the model's run later (enough for every run of the pattern),
+// earlier, or a fixed job start that must move) and starting the model's runs
+// later, each verified on every run of the pattern,
 // the one that moves a clock by less; a tie goes to the data-plan fix, which
 // leaves the clinical workflow's time alone.
 
@@ -32,18 +33,24 @@ struct TimingFix {
   Kind kind = Kind::land_earlier;
   std::string node;        // the delivery or job to change; the model's id for start_later
   int64_t seconds = 0;     // how far its clock must move
-  std::string text;        // for people
+  std::string text;        // for people: what changes, with the edit
+  std::string effect;      // for people: the re-check ("all 4 runs of this pattern ok; no other run changes")
+  std::string edit;        // the edit as `what-if` takes it, e.g. "delay bed_board=-PT50M"
+  bool breaks_others = false;  // the edit turns some other run worse
 };
 /// "land-earlier" | "move-start" | "start-later".
 const char* to_string(TimingFix::Kind k);
 
 struct TimingPattern {
   std::string description;               // "fails every Monday (4 of 4 Monday runs)"
-  size_t runs = 0;                       // failing runs in the pattern
+  bool degraded = false;                 // a pattern of degraded runs (optional features), else failing runs
+  size_t runs = 0;                       // runs in the pattern
   std::vector<std::string> failing_features;
   std::vector<std::string> chain;        // critical chain, source first
-  std::optional<TimingFix> data_fix;     // nullopt: no step of the plan can be named
-  std::optional<TimingFix> later_start;  // nullopt: no later start within two days helps
+  std::string cause;                     // why its worst run is late (empty when unknown)
+  std::optional<TimingFix> data_fix;     // nullopt: no single verified edit of one step clears the pattern
+  std::optional<TimingFix> later_start;  // nullopt: no later start within two days clears it
+  std::string no_fix;                    // when neither exists: why
   std::optional<TimingFix> cheapest;     // the smaller of the two (see above)
 };
 
@@ -54,7 +61,8 @@ struct TimingSummary {
   std::optional<int64_t> tightest_slack_seconds;   // over non-optional features ready at all; nullopt: none
   std::optional<Instant> tightest_at;              // the run with that slack
   std::vector<std::string> degraded_features;      // optional features not fresh in some run
-  std::vector<TimingPattern> patterns;             // most failing runs first, then order of first failure
+  std::optional<int64_t> tightest_optional_seconds; // the same over optional features
+  std::vector<TimingPattern> patterns;             // failing patterns first, most runs first, then order of first run
 };
 
 /// Summarises the runs of model `model` in `ev` (an evaluation of the whole plan).

@@ -1,6 +1,8 @@
 #include "plan/lineage.h"
 
 #include <boost/graph/adjacency_list.hpp>
+#include <boost/graph/breadth_first_search.hpp>
+#include <boost/pending/queue.hpp>
 #include <boost/graph/depth_first_search.hpp>
 #include <boost/graph/topological_sort.hpp>
 
@@ -138,6 +140,54 @@ std::vector<bool> Lineage::upstream_mask(const std::vector<int>& targets) const 
     }
   }
   return mask;
+}
+
+namespace {
+
+// Records every vertex a breadth-first visit discovers.
+struct ConeVisitor : boost::default_bfs_visitor {
+  std::vector<int>* found;
+  void discover_vertex(Vertex v, const Graph&) const { found->push_back(static_cast<int>(v)); }
+};
+
+}  // namespace
+
+struct DownstreamCones::Impl {
+  Graph graph;
+  std::vector<int> rank;
+  std::vector<boost::default_color_type> colours;  // all white between queries
+};
+
+DownstreamCones::DownstreamCones(const Lineage& lineage) : impl_(std::make_unique<Impl>()) {
+  std::vector<std::vector<int>> inputs(lineage.size());
+  for (size_t j = 0; j < lineage.size(); ++j) inputs[j] = lineage.inputs(static_cast<int>(j));
+  impl_->graph = build_graph(inputs);
+  impl_->rank.assign(lineage.size(), 0);
+  std::vector<int> order = lineage.topological_order();
+  for (size_t i = 0; i < order.size(); ++i) impl_->rank[static_cast<size_t>(order[i])] = static_cast<int>(i);
+  impl_->colours.assign(lineage.size(), boost::white_color);
+}
+
+DownstreamCones::~DownstreamCones() = default;
+DownstreamCones::DownstreamCones(DownstreamCones&&) noexcept = default;
+DownstreamCones& DownstreamCones::operator=(DownstreamCones&&) noexcept = default;
+
+int DownstreamCones::rank(int node) const { return impl_->rank[static_cast<size_t>(node)]; }
+
+std::vector<int> DownstreamCones::of(const std::vector<int>& seeds) const {
+  Impl& m = *impl_;
+  auto colour_map = boost::make_iterator_property_map(m.colours.begin(), boost::get(boost::vertex_index, m.graph));
+  std::vector<int> found;
+  ConeVisitor visitor;
+  visitor.found = &found;
+  boost::queue<Vertex> queue;
+  for (int s : seeds) {
+    if (m.colours[static_cast<size_t>(s)] != boost::white_color) continue;
+    boost::breadth_first_visit(m.graph, static_cast<Vertex>(s), queue, visitor, colour_map);
+  }
+  for (int n : found) m.colours[static_cast<size_t>(n)] = boost::white_color;
+  std::sort(found.begin(), found.end(), [&](int a, int b) { return m.rank[static_cast<size_t>(a)] < m.rank[static_cast<size_t>(b)]; });
+  return found;
 }
 
 }  // namespace readyby

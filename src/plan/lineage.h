@@ -5,6 +5,7 @@
 // (data flows from i to j). Built from each node's input list.
 
 #include <cstddef>
+#include <memory>
 #include <vector>
 
 namespace readyby {
@@ -41,6 +42,29 @@ class Lineage {
  private:
   std::vector<std::vector<int>> inputs_;
   std::vector<std::vector<int>> consumers_;
+};
+
+/// Downstream cones of an acyclic lineage, on Boost.Graph: prepared once,
+/// then each query costs about the size of its cone. Queries reuse internal
+/// scratch space, so one object must not be queried from two threads at once.
+class DownstreamCones {
+ public:
+  /// `lineage` must be acyclic; it need not outlive this object.
+  explicit DownstreamCones(const Lineage& lineage);
+  ~DownstreamCones();
+  DownstreamCones(DownstreamCones&&) noexcept;
+  DownstreamCones& operator=(DownstreamCones&&) noexcept;
+
+  /// Every node reachable from a node of `seeds` along the data flow, seeds
+  /// included, each once, in topological order (each node after all of its
+  /// inputs that are listed; ties in the order of Lineage::topological_order).
+  std::vector<int> of(const std::vector<int>& seeds) const;
+  /// Position of `node` in Lineage::topological_order.
+  int rank(int node) const;
+
+ private:
+  struct Impl;
+  std::unique_ptr<Impl> impl_;
 };
 
 }  // namespace readyby

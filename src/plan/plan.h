@@ -51,6 +51,10 @@ struct Node {
   std::optional<Duration> lookback;
   bool optional = false;
   std::vector<std::string> elements;
+
+  // Edits (DESIGN §9 `fail`): the node never lands, E is undefined for every
+  // w. Never set by the loader; only engine/edit.h sets it on a copy.
+  bool fails = false;
 };
 
 struct RunSpec {

@@ -4,7 +4,10 @@
 #include <climits>
 #include <cstdio>
 
-#include "report/failure_patterns.h"
+#include "engine/fixes.h"
+#include "engine/patterns.h"
+#include "report/advice_text.h"
+#include "report/check_json.h"
 #include "util/text.h"
 
 namespace readyby {
@@ -29,7 +32,12 @@ std::string ids(const Plan& plan, const std::vector<int>& nodes, const char* sep
   return out;
 }
 
-std::string pad(const std::string& s, size_t width) { return s.size() >= width ? s : s + std::string(width - s.size(), ' '); }
+// Pads to `width` characters (UTF-8 aware).
+std::string pad(const std::string& s, size_t width) {
+  size_t chars = 0;
+  for (unsigned char c : s) chars += (c & 0xC0) != 0x80;
+  return chars >= width ? s : s + std::string(width - chars, ' ');
+}
 
 }  // namespace
 
@@ -38,100 +46,106 @@ std::string local_with_offset(Instant t, const Zone* zone) {
   return format_local(zone->to_local(t)) + " " + rfc.substr(19);
 }
 
+namespace {
+
+std::string feature_lateness(const Plan& plan, const Pattern& p) {
+  std::string out;
+  for (const PatternFeature& f : p.features) {
+    out += (out.empty() ? "" : ", ") + plan.nodes[static_cast<size_t>(f.feature)].id;
+    if (f.never) out += " (never fresh)";
+    else if (f.worst_late_seconds > 0) out += " (late by up to " + human_duration(f.worst_late_seconds) + ")";
+  }
+  return out;
+}
+
+void write_fixes(std::ostream& out, const Plan& plan, const Pattern& p, const FixSearch& search, const Paint& paint,
+                 const char* indent) {
+  if (search.fixes.empty()) {
+    out << indent << "fix: " << describe_no_fix(plan, p, search) << "\n";
+    return;
+  }
+  for (size_t i = 0; i < search.fixes.size(); ++i) {
+    const Fix& fix = search.fixes[i];
+    out << indent << (i == 0 ? "fix: " : "or: ") << describe_fix(plan, p, fix) << "\n";
+    const std::string effect = describe_effect(plan, fix);
+    out << indent << "     " << (fix.breaks_others() ? paint(kYellow, effect) : paint(kDim, effect)) << "\n";
+  }
+}
+
+void write_pattern(std::ostream& out, const Plan& plan, const Pattern& p, const FixSearch& search,
+                   const Paint& paint) {
+  const Model& model = plan.models[static_cast<size_t>(p.model)];
+  const bool fail = p.status == RunStatus::fail;
+  out << "  " << paint(fail ? kRed : kYellow, std::string(fail ? "✗ " : "~ ") + describe_pattern(plan, p)) << "\n";
+  out << "      " << (fail ? "not fresh: " : "optional, not fresh: ") << feature_lateness(plan, p) << "\n";
+  std::vector<int> chain;
+  for (const BlameStep& s : p.blame.steps) chain.push_back(s.node);
+  out << "      chain: " << ids(plan, chain, " → ") << "\n";
+  const std::string cause = describe_cause(plan, p.blame, model.zone);
+  if (!cause.empty()) {
+    out << "      cause: " << cause
+        << (p.runs.size() > 1 ? " (worst run, " + format_local(model.zone->to_local(p.worst_run)) + ")" : "") << "\n";
+  }
+  write_fixes(out, plan, p, search, paint, "      ");
+  for (size_t i = 0; i < p.blame.steps.size(); ++i) {
+    const BlameStep& s = p.blame.steps[i];
+    if (!s.stale_start || static_cast<int>(i) == p.blame.cause) continue;
+    const Node& n = plan.nodes[static_cast<size_t>(s.node)];
+    out << "      " << paint(kYellow, "stale read") << ": " << to_string(n.kind) << " '" << n.id
+        << "' starts on a fixed schedule (\"" << n.trigger->text << "\") at "
+        << format_local(model.zone->to_local(*s.stale_start)) << ", before its input has landed; that start reads old data\n";
+  }
+  std::string runs;
+  size_t shown = 0;
+  for (Instant r : p.runs) {
+    if (shown++ == 6) {
+      runs += ", …";
+      break;
+    }
+    runs += (runs.empty() ? "" : ", ") + format_local(model.zone->to_local(r));
+  }
+  out << paint(kDim, "      runs: " + runs) << "\n";
+}
+
+}  // namespace
+
 void write_check_text(std::ostream& out, const Plan& plan, const Evaluation& ev, TextStyle style) {
   Paint paint{style.colour};
+  // One pass over the runs (computed now when the evaluation is lazy); only
+  // the runs that are not ok are remembered, as small records.
+  PatternCollector collector(plan, ev);
+  collect_runs(ev, &collector);
+  const std::vector<Pattern> patterns = collector.patterns();
+  FixFinder finder(collector);
+
   LocalDays last = ev.from + date::days(ev.days - 1);
   out << paint(kBold, "readyby check: plan " + plan.id) << (plan.title.empty() ? "" : " — " + plan.title) << "\n";
   out << "window: " << format_date(ev.from) << " to " << format_date(last) << " (" << ev.days << " days, local dates of each model's zone)\n";
 
-  std::vector<FailurePattern> patterns = failure_patterns(plan, ev);
+  bool failed_any = false;
   for (size_t m = 0; m < plan.models.size(); ++m) {
     const Model& model = plan.models[m];
-    int ok = 0, degraded = 0, failed = 0;
-    int64_t tightest = INT64_MAX;
-    const RunResult* tightest_run = nullptr;
-    for (const RunResult& run : ev.runs) {
-      if (run.model != static_cast<int>(m)) continue;
-      (run.status == RunStatus::ok ? ok : run.status == RunStatus::degraded ? degraded : failed)++;
-      for (const FeatureResult& f : run.features) {
-        if (f.optional || f.status == FeatureStatus::never) continue;
-        if (f.slack_seconds < tightest) tightest = f.slack_seconds, tightest_run = &run;
-      }
+    const ModelSummary& s = collector.summaries()[m];
+    failed_any = failed_any || s.failed > 0;
+    out << "\n" << paint(kBold, "model " + model.id) << " (" << model.zone->name() << "): " << s.runs << " runs — ";
+    out << paint(kGreen, std::to_string(s.ok) + " ok") << ", "
+        << (s.degraded ? paint(kYellow, std::to_string(s.degraded) + " degraded") : "0 degraded") << ", "
+        << (s.failed ? paint(kRed, std::to_string(s.failed) + " failed") : "0 failed");
+    if (s.tightest_required_seconds) {
+      out << "; tightest slack " << human_duration(*s.tightest_required_seconds) << " ("
+          << format_local(model.zone->to_local(*s.tightest_required_at)) << ")";
     }
-    int total = ok + degraded + failed;
-    out << "\n" << paint(kBold, "model " + model.id) << " (" << model.zone->name() << "): " << total << " runs — ";
-    out << paint(kGreen, std::to_string(ok) + " ok") << ", "
-        << (degraded ? paint(kYellow, std::to_string(degraded) + " degraded") : "0 degraded") << ", "
-        << (failed ? paint(kRed, std::to_string(failed) + " failed") : "0 failed");
-    if (tightest_run) {
-      out << "; tightest slack " << human_duration(tightest) << " ("
-          << format_local(model.zone->to_local(tightest_run->at)) << ")";
+    if (s.tightest_optional_seconds) {
+      out << "; optional features: tightest slack " << human_duration(*s.tightest_optional_seconds) << " ("
+          << format_local(model.zone->to_local(*s.tightest_optional_at)) << ")";
     }
     out << "\n";
-    if (degraded) {
-      // Name the optional features that are missed, once each.
-      std::vector<int> missed;
-      for (const RunResult& run : ev.runs) {
-        if (run.model != static_cast<int>(m)) continue;
-        for (const FeatureResult& f : run.features) {
-          if (f.optional && f.status != FeatureStatus::ok &&
-              std::find(missed.begin(), missed.end(), f.feature) == missed.end()) {
-            missed.push_back(f.feature);
-          }
-        }
-      }
-      out << "  " << paint(kYellow, "degraded") << ": optional feature" << (missed.size() > 1 ? "s " : " ")
-          << ids(plan, missed, ", ") << " not fresh in some runs (the model scores without them)\n";
+    if (s.degraded) {
+      out << "  " << paint(kYellow, "degraded") << ": optional feature" << (s.degraded_features.size() > 1 ? "s " : " ")
+          << ids(plan, s.degraded_features, ", ") << " not fresh in some runs (the model scores without them)\n";
     }
-    for (const FailurePattern& p : patterns) {
-      if (p.model != static_cast<int>(m)) continue;
-      out << "  " << paint(kRed, "✗ " + p.description) << "\n";
-      // How late each failing feature was, worst run of the pattern.
-      std::string late;
-      for (int f : p.failing_features) {
-        int64_t worst = INT64_MAX;
-        bool never = false;
-        for (size_t r : p.runs) {
-          for (const FeatureResult& fr : ev.runs[r].features) {
-            if (fr.feature != f) continue;
-            if (fr.status == FeatureStatus::never) never = true;
-            else worst = std::min(worst, fr.slack_seconds);
-          }
-        }
-        late += (late.empty() ? "" : ", ") + plan.nodes[static_cast<size_t>(f)].id +
-                (never ? " (never fresh)" : worst < 0 ? " (late by up to " + human_duration(-worst) + ")" : "");
-      }
-      out << "      not fresh: " << late << "\n";
-      out << "      chain: " << ids(plan, p.critical_chain, " → ") << "\n";
-      if (p.fix) {
-        out << "      fix: " << p.fix->text
-            << (p.runs.size() > 1 ? " (worst run, " + format_local(model.zone->to_local(ev.runs[p.worst_run].at)) + ")" : "")
-            << "\n";
-      }
-      if (p.start_later_seconds) {
-        out << "      or: start the run " << human_duration(*p.start_later_seconds) << " later"
-            << (p.runs.size() > 1 ? " (enough for every run of this pattern)" : "") << "\n";
-      } else {
-        out << "      or: no later start within " << human_duration(kLaterStartSearch) << " fixes it\n";
-      }
-      for (int job : p.stale_jobs) {
-        if (p.fix && p.fix->node == job) continue;  // the fix already says it
-        const Node& n = plan.nodes[static_cast<size_t>(job)];
-        out << "      " << paint(kYellow, "stale read") << ": " << to_string(n.kind) << " '" << n.id
-            << "' starts on a fixed schedule (\"" << n.trigger->text
-            << "\") before its input has landed; that start reads old data\n";
-      }
-      out << paint(kDim, "      runs: ");
-      std::string runs;
-      size_t shown = 0;
-      for (size_t r : p.runs) {
-        if (shown++ == 6) {
-          runs += ", …";
-          break;
-        }
-        runs += (runs.empty() ? "" : ", ") + format_local(model.zone->to_local(ev.runs[r].at));
-      }
-      out << paint(kDim, runs) << "\n";
+    for (const Pattern& p : patterns) {
+      if (p.model == static_cast<int>(m)) write_pattern(out, plan, p, finder.find(p), paint);
     }
   }
   if (!ev.findings.empty()) {
@@ -140,17 +154,30 @@ void write_check_text(std::ostream& out, const Plan& plan, const Evaluation& ev,
       out << "  " << (f.kind == "lookback" ? paint(kYellow, f.kind) : paint(kDim, f.kind)) << ": " << f.message << "\n";
     }
   }
-  out << "\n" << (ev.ok() ? paint(kGreen, "every run is ok or degraded") : paint(kRed, "some runs fail")) << "\n";
+  out << "\n" << (!failed_any ? paint(kGreen, "every run is ok or degraded") : paint(kRed, "some runs fail")) << "\n";
 }
 
-void write_run_explanation_text(std::ostream& out, const Plan& plan, const Evaluation& ev, TextStyle style) {
+void write_run_explanation_text(std::ostream& out, const Plan& plan, const RunExplanation& x, TextStyle style) {
   Paint paint{style.colour};
-  const RunResult& run = ev.runs.front();
+  const RunResult& run = x.run;
   const Model& model = plan.models[static_cast<size_t>(run.model)];
+  const LocalDays day = date::floor<date::days>(model.zone->to_local(run.at));
   const char* status_colour = run.status == RunStatus::ok ? kGreen : run.status == RunStatus::degraded ? kYellow : kRed;
-  out << paint(kBold, "run of model " + model.id + " at " + local_with_offset(run.at, model.zone)) << ": "
-      << paint(status_colour, to_string(run.status)) << "\n";
-  for (const FeatureResult& f : run.features) {
+  if (!x.scheduled) {
+    out << paint(kYellow, "note") << ": " << format_local(model.zone->to_local(run.at)) << " is not a scheduled run of model "
+        << model.id << " (runs at";
+    for (const RunSpec& spec : model.runs) out << " \"" << spec.at.text << "\"";
+    out << "); nearest scheduled runs: "
+        << (x.previous_run ? local_with_offset(*x.previous_run, model.zone) : std::string("none")) << " before, "
+        << (x.next_run ? local_with_offset(*x.next_run, model.zone) : std::string("none"))
+        << " after. Explained as if it ran then.\n";
+  }
+  out << paint(kBold, std::string(x.scheduled ? "run" : "unscheduled run") + " of model " + model.id + " at " +
+                          local_with_offset(run.at, model.zone))
+      << ": " << paint(status_colour, to_string(run.status)) << "\n";
+  for (size_t k = 0; k < run.features.size(); ++k) {
+    const FeatureResult& f = run.features[k];
+    const Blame& b = x.blames[k];
     const Node& feature = plan.nodes[static_cast<size_t>(f.feature)];
     out << "\n" << paint(kBold, "feature " + feature.id) << (f.optional ? " (optional)" : "")
         << ": max_age " << format_duration(feature.max_age) << ", needs data through "
@@ -161,17 +188,21 @@ void write_run_explanation_text(std::ostream& out, const Plan& plan, const Evalu
     } else {
       out << "  " << paint(kRed, "never") << ": no qualifying delivery within 1,462 days\n";
     }
-    std::vector<ChainStep> steps = explain_chain(plan, ev, f, run.at);
-    out << "  " << pad("step", 28) << pad("kind", 9) << pad("lands", 25) << pad("latest on time", 25) << "slack\n";
-    for (const ChainStep& s : steps) {
+    out << "  " << pad("step", 28) << pad("kind", 9) << pad("lands", 25) << pad("latest on time", 25)
+        << pad("late: own", 12) << "waiting\n";
+    for (size_t i = 0; i < b.steps.size(); ++i) {
+      const BlameStep& s = b.steps[i];
       const Node& n = plan.nodes[static_cast<size_t>(s.node)];
-      std::string kind = to_string(n.kind);
+      const bool cause = static_cast<int>(i) == b.cause;
       std::string lands = s.ready ? local_with_offset(*s.ready, model.zone) : "never";
-      std::string latest = s.latest ? local_with_offset(*s.latest, model.zone) : "—";
-      std::string slack = s.ready && s.latest ? human_duration((*s.latest - *s.ready).count()) : "—";
-      bool negative = s.ready && s.latest && *s.latest < *s.ready;
-      out << "  " << pad(n.id, 28) << pad(kind, 9) << pad(lands, 25) << pad(latest, 25)
-          << (negative ? paint(kRed, slack) : slack) << "\n";
+      std::string latest = s.deadline_before_data ? "— before its data"
+                           : s.latest             ? local_with_offset(*s.latest, model.zone)
+                                                  : "—";
+      std::string own = s.own_late_seconds ? human_duration(s.own_late_seconds) : "-";
+      std::string waited = s.waited_seconds ? human_duration(s.waited_seconds) : "-";
+      out << "  " << pad(n.id, 28) << pad(to_string(n.kind), 9) << pad(lands, 25) << pad(latest, 25)
+          << (s.own_late_seconds ? paint(kRed, pad(own, 12)) : pad(own, 12)) << waited
+          << (cause ? paint(kRed, "  ← cause") : "") << "\n";
       if (n.kind == NodeKind::source) {
         out << paint(kDim, "      " + (n.stream ? std::string("stream") : "schedule " + n.schedule->text + " (" + n.zone->name() + ")") +
                                ", lands_after " + format_duration(n.lands_after) +
@@ -183,46 +214,54 @@ void write_run_explanation_text(std::ostream& out, const Plan& plan, const Evalu
                                ", run_time " + format_duration(n.run_time))
             << "\n";
       }
-      if (s.stale_start) {
-        out << "      " << paint(kYellow, "stale read") << ": its start at " << local_with_offset(*s.stale_start, model.zone)
+      if (s.stale_start && !cause) {
+        out << "      " << paint(kYellow, "stale read") << ": its start at " << clock_on(*s.stale_start, model.zone, day)
             << " came before its input landed\n";
       }
     }
+    const std::string cause = describe_cause(plan, b, model.zone);
+    if (!cause.empty()) out << "  " << paint(kBold, "cause") << ": " << cause << "\n";
+  }
+  if (x.pattern && x.fixes) {
+    out << "\n" << paint(kBold, "to make this run ok") << " (each fix re-checked; effects over " << x.window_days
+        << " days from " << format_date(x.window_from) << ")\n";
+    write_fixes(out, plan, *x.pattern, *x.fixes, paint, "  ");
   }
 }
 
-void write_run_explanation_json(std::ostream& out, const Plan& plan, const Evaluation& ev) {
-  const RunResult& run = ev.runs.front();
+void write_run_explanation_json(std::ostream& out, const Plan& plan, const RunExplanation& x) {
+  auto json_time = [](const std::optional<Instant>& t, const Zone* zone) {
+    return t ? "\"" + format_rfc3339(*t, zone) + "\"" : std::string("null");
+  };
+  const RunResult& run = x.run;
   const Model& model = plan.models[static_cast<size_t>(run.model)];
   out << "{\"model\": " << json_quote(model.id) << ", \"at\": \"" << format_rfc3339(run.at, model.zone)
-      << "\", \"status\": \"" << to_string(run.status) << "\",\n \"features\": [";
-  bool first = true;
-  for (const FeatureResult& f : run.features) {
-    out << (first ? "\n  " : ",\n  ");
-    first = false;
+      << "\", \"status\": \"" << to_string(run.status) << "\", \"scheduled\": " << (x.scheduled ? "true" : "false")
+      << ", \"previous_run\": " << (x.scheduled ? std::string("null") : json_time(x.previous_run, model.zone))
+      << ", \"next_run\": " << (x.scheduled ? std::string("null") : json_time(x.next_run, model.zone)) << ",\n \"features\": [";
+  for (size_t k = 0; k < run.features.size(); ++k) {
+    const FeatureResult& f = run.features[k];
+    const Blame& b = x.blames[k];
+    out << (k == 0 ? "\n  " : ",\n  ");
     out << "{\"feature\": " << json_quote(plan.nodes[static_cast<size_t>(f.feature)].id)
         << ", \"optional\": " << (f.optional ? "true" : "false") << ", \"needs_data_through\": \""
         << format_rfc3339(f.needs_data_through, model.zone) << "\", \"ready_at\": ";
     if (f.ready_at) out << '"' << format_rfc3339(*f.ready_at, model.zone) << "\", \"slack_seconds\": " << f.slack_seconds;
     else out << "null, \"slack_seconds\": null";
-    out << ", \"status\": \"" << to_string(f.status) << "\", \"steps\": [";
-    bool first_step = true;
-    for (const ChainStep& s : explain_chain(plan, ev, f, run.at)) {
-      const Node& n = plan.nodes[static_cast<size_t>(s.node)];
-      out << (first_step ? "" : ", ") << "{\"node\": " << json_quote(n.id) << ", \"kind\": \"" << to_string(n.kind)
-          << "\", \"ready_at\": ";
-      first_step = false;
-      if (s.ready) out << '"' << format_rfc3339(*s.ready, model.zone) << '"'; else out << "null";
-      out << ", \"latest\": ";
-      if (s.latest) out << '"' << format_rfc3339(*s.latest, model.zone) << '"'; else out << "null";
-      out << ", \"slack_seconds\": ";
-      if (s.ready && s.latest) out << (*s.latest - *s.ready).count(); else out << "null";
-      if (s.stale_start) out << ", \"stale_start\": \"" << format_rfc3339(*s.stale_start, model.zone) << '"';
-      out << "}";
+    out << ", \"status\": \"" << to_string(f.status) << "\", \"steps\": " << blame_steps_json(plan, b, model.zone)
+        << ", \"cause\": ";
+    if (b.cause < 0) {
+      out << "null";
+    } else {
+      out << "{\"node\": " << json_quote(plan.nodes[static_cast<size_t>(b.cause_node())].id) << ", \"kind\": \""
+          << to_string(b.kind) << "\", \"text\": " << json_quote(describe_cause(plan, b, model.zone)) << "}";
     }
-    out << "]}";
+    out << "}";
   }
-  out << "]}\n";
+  out << "],\n ";
+  if (x.pattern && x.fixes) out << fix_keys_json(plan, *x.pattern, *x.fixes);
+  else out << "\"fixes\": null, \"no_fix\": null";
+  out << "}\n";
 }
 
 }  // namespace readyby

@@ -9,7 +9,9 @@ namespace {
 std::string json_fix(const std::optional<TimingFix>& fix) {
   if (!fix) return "null";
   return "{\"kind\": " + json_quote(to_string(fix->kind)) + ", \"node\": " + json_quote(fix->node) +
-         ", \"seconds\": " + std::to_string(fix->seconds) + ", \"text\": " + json_quote(fix->text) + "}";
+         ", \"seconds\": " + std::to_string(fix->seconds) + ", \"text\": " + json_quote(fix->text) +
+         ", \"edit\": " + json_quote(fix->edit) + ", \"effect\": " + json_quote(fix->effect) +
+         ", \"breaks_others\": " + (fix->breaks_others ? "true" : "false") + "}";
 }
 
 std::string json_optional(const std::optional<int64_t>& v) { return v ? std::to_string(*v) : "null"; }
@@ -22,13 +24,16 @@ std::string timing_json(const IntakeReport& r) {
                     ", \"failed\": " + std::to_string(t.failed) +
                     ", \"tightest_slack_seconds\": " + json_optional(t.tightest_slack_seconds) +
                     ", \"tightest_at\": " + (t.tightest_at ? json_quote(format_rfc3339(*t.tightest_at, zone)) : "null") +
+                    ", \"tightest_optional_slack_seconds\": " + json_optional(t.tightest_optional_seconds) +
                     ", \"degraded_features\": " + json_list(t.degraded_features) + ",\n  \"patterns\": [";
   for (size_t i = 0; i < t.patterns.size(); ++i) {
     const TimingPattern& p = t.patterns[i];
     out += std::string(i ? ",\n   " : "\n   ") + "{\"description\": " + json_quote(p.description) +
-           ", \"runs\": " + std::to_string(p.runs) + ", \"failing_features\": " + json_list(p.failing_features) +
+           ", \"status\": " + (p.degraded ? "\"degraded\"" : "\"fail\"") + ", \"runs\": " + std::to_string(p.runs) + ", \"failing_features\": " + json_list(p.failing_features) +
            ", \"chain\": " + json_list(p.chain) + ",\n    \"fix\": " + json_fix(p.data_fix) +
-           ",\n    \"start_later\": " + json_fix(p.later_start) + ",\n    \"cheapest\": " + json_fix(p.cheapest) + "}";
+           ",\n    \"start_later\": " + json_fix(p.later_start) + ",\n    \"cheapest\": " + json_fix(p.cheapest) +
+           ", \"cause\": " + (p.cause.empty() ? "null" : json_quote(p.cause)) +
+           ", \"no_fix\": " + (p.no_fix.empty() ? "null" : json_quote(p.no_fix)) + "}";
   }
   return out + "]}";
 }
@@ -85,7 +90,7 @@ std::string intake_json(const IntakeReport& r) {
          ", \"days\": " + std::to_string(r.days) + ",\n \"timing\": " + timing_json(r) + ",\n \"reuse\": " + reuse +
          ",\n \"feasibility\": " + feasibility_json(r.feasibility) +
          ",\n \"recommendation\": " + recommendation_json(r.recommendation) +
-         ",\n \"cautions\": " + json_list(catalogue_cautions()) + "}\n";
+         ",\n \"cautions\": " + json_list(catalogue_cautions()) + ",\n \"forecast\": " + intake_forecast_json(r) + "}\n";
 }
 
 }  // namespace readyby

@@ -91,6 +91,7 @@ std::string intake_markdown(const IntakeReport& r) {
   timing_section(r, &out);
   reuse_section(r, &out);
   feasibility_section(r, &out);
+  out += intake_forecast_markdown(r);
   out += "\n#### Cautions\n\n";
   for (const std::string& c : catalogue_cautions()) out += "- " + c + "\n";
   out += "\n<sub>Screened by readyby from schedules and catalogue metadata only; no patient data.</sub>\n";

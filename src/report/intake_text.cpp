@@ -44,15 +44,25 @@ void timing_section(const IntakeReport& r, std::string* out) {
     *out += "; tightest slack " + human_duration(*t.tightest_slack_seconds) + " (" +
             format_local(zone->to_local(*t.tightest_at)) + ")";
   }
+  if (t.tightest_optional_seconds) {
+    *out += "; optional features: tightest slack " + human_duration(*t.tightest_optional_seconds);
+  }
   *out += "\n";
   if (!t.degraded_features.empty()) {
     *out += "  degraded: optional " + join(t.degraded_features, ", ") + " not always fresh\n";
   }
   for (const TimingPattern& p : t.patterns) {
-    *out += "  ✗ " + p.description + "\n";
-    *out += "      not fresh: " + join(p.failing_features, ", ") + "; chain: " + join(p.chain, " → ") + "\n";
-    if (p.data_fix) *out += "      fix: " + p.data_fix->text + "\n";
-    if (p.later_start) *out += "      or: " + p.later_start->text + "\n";
+    *out += std::string(p.degraded ? "  ~ " : "  ✗ ") + p.description + "\n";
+    *out += std::string(p.degraded ? "      optional, not fresh: " : "      not fresh: ") + join(p.failing_features, ", ") +
+            "; chain: " + join(p.chain, " → ") + "\n";
+    if (!p.cause.empty()) *out += "      cause: " + p.cause + "\n";
+    const char* label = "fix: ";
+    for (const std::optional<TimingFix>* fix : {&p.data_fix, &p.later_start}) {
+      if (!*fix) continue;
+      *out += std::string("      ") + label + (*fix)->text + "\n           " + (*fix)->effect + "\n";
+      label = "or: ";
+    }
+    if (!p.no_fix.empty()) *out += "      fix: " + p.no_fix + "\n";
   }
 }
 
@@ -121,6 +131,7 @@ std::string intake_text(const IntakeReport& r) {
   timing_section(r, &out);
   reuse_section(r, &out);
   feasibility_section(r, &out);
+  out += intake_forecast_text(r);
   out += "\ncautions:\n";
   for (const std::string& c : catalogue_cautions()) out += "  - " + c + "\n";
   return out;

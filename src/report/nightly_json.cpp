@@ -1,6 +1,7 @@
 #include <cmath>
 #include <cstdio>
 
+#include "report/check_json.h"
 #include "report/nightly_report.h"
 #include "time/zone.h"
 #include "util/text.h"
@@ -73,7 +74,15 @@ void write_nightly_json(std::ostream& out, const Plan& plan, const NightlyReport
       out << (k ? ",\n    " : "\n    ");
       write_feature(out, plan, report, model, run.features[k]);
     }
-    out << "]}";
+    out << "],\n   \"advice\": ";
+    bool advised = false;
+    for (const NightlyReport::RunAdvice& a : report.advice) {
+      if (a.run != report.today[i]) continue;
+      out << pattern_json(plan, a.pattern, a.fixes);
+      advised = true;
+    }
+    if (!advised) out << "null";
+    out << "}";
   }
   out << "],\n \"unmonitored\": [";
   for (size_t i = 0; i < report.unmonitored.size(); ++i) {

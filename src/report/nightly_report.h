@@ -22,12 +22,15 @@ const char* nightly_status(FeatureStatus s);
 std::string silent_warning(const Plan& plan, const SilentNode& silent, const Zone* zone);
 
 /// The text report: the day's runs with each failing feature's chain of
-/// landings, unmonitored sources, drift, on-time rates and the weakest link.
+/// landings, the cause and verified fixes of each run that is not ok,
+/// unmonitored sources, drift, on-time rates and the weakest link.
 void write_nightly_text(std::ostream& out, const Plan& plan, const NightlyReport& report);
 
 /// One JSON object: `plan`, `timezone`, `date`, `window`, `window_from`, `ok`,
 /// `runs` (as `check`, plus per feature `landings`: the chain with each
-/// step's landing time), `unmonitored`, `drift`, `on_time`, `weakest_link`.
+/// step's landing time, and per run `advice`: null when ok, else the run as a
+/// pattern of `check --format json`, with its cause and verified fixes),
+/// `unmonitored`, `drift`, `on_time`, `weakest_link`.
 void write_nightly_json(std::ostream& out, const Plan& plan, const NightlyReport& report);
 
 /// JUnit XML: one <testsuite> for the day, one <testcase> per run; a failing

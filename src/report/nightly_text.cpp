@@ -1,6 +1,7 @@
 #include <cmath>
 #include <cstdio>
 
+#include "report/advice_text.h"
 #include "report/check_text.h"
 #include "report/nightly_report.h"
 #include "time/duration.h"
@@ -50,6 +51,19 @@ void write_run(std::ostream& out, const Plan& plan, const NightlyReport& report,
     else out << "not landed";
     out << " (needs data through " << format_local(model.zone->to_local(f.needs_data_through)) << ")\n";
     out << "        chain: " << chain_text(plan, report, f, model.zone) << "\n";
+  }
+  for (const NightlyReport::RunAdvice& a : report.advice) {
+    if (&report.evaluation.runs[a.run] != &run) continue;
+    const std::string cause = describe_cause(plan, a.pattern.blame, model.zone);
+    if (!cause.empty()) out << "      cause: " << cause << "\n";
+    if (a.fixes.fixes.empty()) {
+      out << "      fix: " << describe_no_fix(plan, a.pattern, a.fixes) << "\n";
+    }
+    for (size_t i = 0; i < a.fixes.fixes.size(); ++i) {
+      const Fix& fix = a.fixes.fixes[i];
+      out << "      " << (i == 0 ? "fix: " : "or: ") << describe_fix(plan, a.pattern, fix) << "\n"
+          << "           " << describe_effect(plan, fix) << "\n";
+    }
   }
 }
 
