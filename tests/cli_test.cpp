@@ -10,6 +10,8 @@
 #include <iterator>
 #include <sstream>
 #include <string>
+#include "history_helpers.h"
+#include "json_check.h"
 #include "run_binary.h"
 
 // The command line as a user meets it: exit statuses and streams.
@@ -60,6 +62,73 @@ TEST_CASE("check --run explains one run step by step") {
   CHECK(json.out.find(R"({"node": "census_snapshot", "kind": "job", "ready_at": "2026-03-08T04:45:00-05:00")") !=
         std::string::npos);
   CHECK(run("check " + kDemo + " --run nobody@2026-03-08T06:30").status == 2);
+}
+
+TEST_CASE("every --format json output is one valid JSON document") {
+  // Checked with a real parser (json_check.h), on the demo and on inputs
+  // whose text needs escaping: quotes, a backslash, tab and line breaks in
+  // titles (YAML text values may hold no other control characters), control
+  // characters in a search text from the command line, non-ASCII text.
+  readyby_test::TempDir dir;
+  const std::string source = READYBY_SOURCE_DIR;
+  const std::string env = "NO_COLOR=1 READYBY_CACHE_DIR='" + dir.file("cache") + "' READYBY_REGISTRY='" + source +
+                          "/registries' ";
+  // Exit 0 or 1 (some run fails, or the proposal is at risk): an answer, not an error.
+  auto json_of = [&](const std::string& args) {
+    Outcome o = readyby::testing::run_shell(env + READYBY_BINARY + " " + args + " 2>" + dir.file("stderr"));
+    INFO(args << "\n" << readyby_test::read_text(dir.file("stderr")) << o.out.substr(0, 2000));
+    CHECK((o.status == 0 || o.status == 1));
+    readyby::testing::JsonCheck check = readyby::testing::check_json(o.out);
+    INFO(check.error);
+    CHECK(check.ok);
+    return o.out;
+  };
+
+  // A plan and a proposal whose titles carry a tab, a line break, quotes, a
+  // backslash and non-ASCII text (YAML double-quoted escapes).
+  auto replace_line = [](std::string text, const std::string& prefix, const std::string& line) {
+    size_t at = text.find("\n" + prefix) + 1;
+    REQUIRE(at != 0);
+    text.replace(at, text.find('\n', at) - at, line);
+    return text;
+  };
+  const std::string plan = dir.file("escapes.plan.yaml");
+  readyby_test::write_text(
+      plan, replace_line(readyby_test::read_text(kDemo), "title: ",
+                         R"Y(title: "Larkspur \"quoted\" back\\slash\ttab\nline caf\u00e9 \u2192 (fictional example)")Y"));
+  std::string proposal_text = readyby_test::read_text(source + "/pipelines/readmit-30d.proposal.yaml");
+  proposal_text = replace_line(proposal_text, "title: ", R"Y(title: "Readmission\t\"30d\"\nback\\slash caf\u00e9 (fictional example)")Y");
+  proposal_text = replace_line(proposal_text, "plan: ", "plan: escapes.plan.yaml");
+  const std::string proposal = dir.file("escapes.proposal.yaml");
+  readyby_test::write_text(proposal, proposal_text);
+  REQUIRE(readyby::testing::run_shell(READYBY_BINARY + std::string(" validate ") + plan).status == 0);
+
+  const std::string window = " --from 2026-02-22 --days 28";
+  for (const std::string& p : {kDemo, plan}) {
+    json_of("check " + p + window + " --format json");
+    json_of("check " + p + " --run discharge_delay@2026-03-08T06:30 --format json");
+  }
+
+  // nightly reads a history database: record the demo logs first.
+  std::string record = "record";
+  for (const char* f : {"feeds-2026-01.csv", "feeds-2026-02.csv", "feeds-2026-03.csv"}) {
+    record += " " + source + "/pipelines/landing-logs/" + f;
+  }
+  REQUIRE(readyby::testing::run_shell(env + READYBY_BINARY + " " + record + " --plan " + plan + " --db " +
+                                      dir.file("h.db") + " >/dev/null 2>&1")
+              .status == 0);
+  json_of("nightly " + plan + " --db " + dir.file("h.db") + " --date 2026-03-03 --format json");
+  json_of("nightly " + plan + " --db " + dir.file("h.db") + " --date 2026-02-10 --format json");
+
+  json_of("catalog search pneumonia severity --format json");
+  json_of("catalog search \"caf\xc3\xa9 \\\" quote\" --format json");  // nothing found: still JSON
+  std::string search = json_of("catalog search '\x1b[31m pneumonia \x07\x01' --format json");
+  CHECK(search.find("\\u001b[31m pneumonia \\u0007\\u0001") != std::string::npos);
+  json_of("reuse " + source + "/pipelines/readmit-30d.proposal.yaml --format json");
+  std::string reuse = json_of("reuse " + proposal + " --format json");
+  CHECK(reuse.find("\"Readmission\\t\\\"30d\\\"\\nback\\\\slash caf\xc3\xa9 (fictional example)\"") != std::string::npos);
+  json_of("intake " + source + "/pipelines/readmit-30d.proposal.yaml" + window + " --format json");
+  CHECK(json_of("intake " + proposal + window + " --format json").find("Readmission\\t\\\"30d\\\"\\nback") != std::string::npos);
 }
 
 // Regression: windows far in the future ran on frozen zone tables or printed

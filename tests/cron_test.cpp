@@ -135,7 +135,7 @@ TEST_CASE("next_occurrence agrees with the minute-stepping reference") {
       default: return std::to_string(lo + pick(hi - lo + 1)) + "/" + std::to_string(1 + pick(6));
     }
   };
-  int compared = 0;
+  int found = 0;
   for (int i = 0; i < 2000; ++i) {
     std::string hour = pick(3) == 0 ? std::to_string(1 + pick(3)) : field(0, 23, true);  // gap hours often
     std::string text = field(0, 59, true) + " " + hour + " " + (pick(2) ? "*" : field(1, 31, true)) + " " +
@@ -154,8 +154,12 @@ TEST_CASE("next_occurrence agrees with the minute-stepping reference") {
     auto slow = reference::next_occurrence(c, zone_name, cal, from);
     INFO(text << " in " << zone_name << " from " << format_rfc3339(from, nullptr));
     REQUIRE(fast.has_value() == slow.has_value());
-    if (fast) REQUIRE(format_rfc3339(*fast, nullptr) == format_rfc3339(*slow, nullptr));
-    ++compared;
+    if (fast) {
+      REQUIRE(format_rfc3339(*fast, nullptr) == format_rfc3339(*slow, nullptr));
+      ++found;
+    }
   }
-  CHECK(compared == 2000);
+  // Not a comparison of two "never"s: nearly every random schedule fires
+  // within the horizon (1,952 of 2000 with this seed).
+  CHECK(found >= 1900);
 }

@@ -126,3 +126,38 @@ TEST_CASE("drift: percentiles, Theil–Sen trend and the drifting flag") {
   CHECK_FALSE(none.p50_offset_seconds);
   CHECK_FALSE(none.drifting);
 }
+
+TEST_CASE("drift: a p90 offset equal to lands_after is not drifting, one second more is") {
+  Plan plan = load();
+  const int nightly = plan.find_node("nightly_feed");  // lands_after PT30M
+  // Five weekly landings; the p90 interpolates between the 4th and 5th
+  // smallest offsets (h = 4 x 0.9 = 3.6).
+  auto weekly = [](std::vector<int> seconds) {
+    std::vector<StoredLanding> out;
+    for (size_t k = 0; k < seconds.size(); ++k) {
+      Instant occurrence = at("2026-02-02T01:00:00Z") + Seconds(static_cast<int64_t>(k) * 7 * kSecondsPerDay);
+      out.push_back({occurrence + Seconds(seconds[k]), occurrence - Seconds(3600), std::nullopt, LandingStatus::ok});
+    }
+    return out;
+  };
+  const Instant from = at("2026-02-01T00:00:00Z"), to = at("2026-03-15T00:00:00Z");
+  struct Case {
+    std::vector<int> offsets;
+    int64_t p90;
+    bool drifting;
+  };
+  const Case cases[] = {
+      {{1800, 1800, 1800, 1800, 1800}, 1800, false},  // exactly the declared time
+      {{1200, 1500, 1700, 1800, 1800}, 1800, false},
+      {{1800, 1800, 1800, 1800, 1802}, 1801, true},   // 1800 + 0.6 x 2 = 1801.2
+      {{1801, 1801, 1801, 1801, 1801}, 1801, true},
+  };
+  for (const Case& c : cases) {
+    INFO("offsets " << c.offsets[0] << " .. " << c.offsets[4]);
+    SourceDrift d = source_drift(plan, nightly, weekly(c.offsets), from, to, std::nullopt);
+    REQUIRE(d.p90_offset_seconds);
+    CHECK(*d.p90_offset_seconds == c.p90);
+    CHECK(d.declared_seconds == 1800);
+    CHECK(d.drifting == c.drifting);
+  }
+}

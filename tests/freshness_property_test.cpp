@@ -19,7 +19,7 @@ TEST_CASE("the engine agrees with the literal recursion on random plans across d
   const char* windows[] = {"2026-03-07", "2026-10-31", "2026-03-28", "2026-10-24", "2026-04-04", "2026-10-03"};
   int plans = 0, compared_runs = 0, compared_features = 0;
   for (int i = 0; i < 300; ++i) {
-    std::string text = random_plan(rng, i);
+    std::string text = readyby::testing::random_plan(rng, i);
     PlanLoadResult loaded = load_plan_text(text, "random.yaml");
     INFO(text << loaded.rendered);
     if (!loaded.plan) {

@@ -143,15 +143,27 @@ TEST_CASE("search ranks by BM25 and filters by setting and outcome") {
   // Stemming: "readmissions" finds the readmission indices.
   std::vector<std::string> readmit = ids_of(index.search(query("readmissions", "", {"readmission-30d"}, 20), &error));
   CHECK(std::find(readmit.begin(), readmit.end(), "lace-index") != readmit.end());
-  for (const SearchHit& h : index.search(query("readmissions", "", {"readmission-30d"}, 20), &error)) {
+  std::vector<SearchHit> by_outcome = index.search(query("readmissions", "", {"readmission-30d"}, 20), &error);
+  REQUIRE(by_outcome.size() >= 2);
+  for (const SearchHit& h : by_outcome) {
+    INFO(h.id);
     CHECK(h.outcome == "readmission-30d");
   }
-  for (const SearchHit& h : index.search(query("mortality", "intensive-care", {}, 50), &error)) {
+  std::vector<SearchHit> by_setting = index.search(query("mortality", "intensive-care", {}, 50), &error);
+  REQUIRE(by_setting.size() >= 2);
+  // The filter removes something: the same words without it find more.
+  CHECK(index.search(query("mortality", "", {}, 50), &error).size() > by_setting.size());
+  for (const SearchHit& h : by_setting) {
     INFO(h.id);
     CHECK(std::find(h.settings.begin(), h.settings.end(), "intensive-care") != h.settings.end());
   }
   CHECK(index.search(query("  ", "", {}, 5), &error).empty());
   CHECK(index.search(query("\"quoted\" AND (weird) NEAR", "", {}, 5), &error).size() <= 5);
+  // FTS5 query syntax in the text is not interpreted: quotes, parentheses,
+  // prefix stars, column filters and initial-token marks are word breaks.
+  std::vector<std::string> with_syntax = ids_of(index.search(query("\"pneumonia\" (severity)* ^ -:", "", {}, 10), &error));
+  CHECK(error.empty());
+  CHECK(with_syntax == pneumonia);
   CHECK(error.empty());
 }
 

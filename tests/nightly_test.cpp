@@ -170,9 +170,13 @@ TEST_CASE("nightly: a monitored node with no qualifying delivery is not landed")
   CHECK(run.status == RunStatus::fail);
   CHECK_FALSE(r.ok());
   // On time: 1 of 2 — the degraded run of 03-02 is on time (every required
-  // feature was fresh), the failed run of 03-03 is not. Wilson 95% score
-  // interval for 1/2 (Wilson 1927, from memory; by hand with z = 1.96:
-  // centre 0.5, half-width 1.96 * sqrt(0.125 + 0.2401) / 2.9208): [0.0945, 0.9055].
+  // feature was fresh), the failed run of 03-03 is not. 95% Wilson score
+  // interval (Wilson EB. Probable inference, the law of succession, and
+  // statistical inference. J Am Stat Assoc 1927;22(158):209-212 — citation
+  // checked against the paper's first page; the closed form from memory):
+  // centre (p + z^2/2n) / (1 + z^2/n) = 0.5, half-width
+  // z sqrt(pq/n + z^2/4n^2) / (1 + z^2/n) = 1.96 x sqrt(0.125 + 0.2401) / 2.9208
+  // = 0.4055: [0.0945, 0.9055].
   REQUIRE(r.on_time.size() == 1);
   CHECK(r.on_time[0].at_local == "06:00");
   CHECK(r.on_time[0].days == 2);

@@ -6,8 +6,10 @@
 #include <sys/stat.h>
 #include <sys/wait.h>
 
+#include <atomic>
 #include <chrono>
 #include <cstdlib>
+#include <memory>
 #include <thread>
 
 #include "history/store.h"
@@ -214,18 +216,21 @@ TEST_CASE("record and nightly run concurrently on one database") {
   // About 240 rows at 2 ms each: the writer holds its transactions for ~0.5 s.
   pid_t writer = readyby_test::spawn_readyby(args, dir.file("w.out"), dir.file("w.err"),
                                              {"READYBY_TEST_SLOW_RECORD=2"});
-  int nightly_runs = 0;
+  // A nightly run that ends before the writer has committed its last file ran
+  // while the writer held or was about to take its write transaction.
+  int during_recording = 0;
   for (int i = 0; i < 8; ++i) {
     auto r = readyby_test::run_readyby(
         dir, {"nightly", dir.file("plan.yaml"), "--db", dir.file("h.db"), "--date", "2026-01-04", "--window", "3"});
     INFO(r.err);
     CHECK((r.status == 0 || r.status == 1));
     CHECK(r.err.empty());
-    nightly_runs += 1;
+    if (readyby_test::read_text(dir.file("w.out")).find("part3.csv") == std::string::npos) ++during_recording;
   }
   CHECK(readyby_test::wait_for(writer) == 0);
   INFO(readyby_test::read_text(dir.file("w.err")));
-  CHECK(nightly_runs == 8);
+  CHECK(during_recording > 0);
+  CHECK(readyby_test::read_text(dir.file("w.out")).find("part3.csv: 60 rows, 60 new") != std::string::npos);
   CHECK(query(dir.file("h.db"), "SELECT count(*) FROM landing") == "245");
 }
 
@@ -256,6 +261,61 @@ TEST_CASE("a recording killed mid-transaction leaves the database consistent, an
   CHECK(rerun.out.find("big.csv: 3000 rows, 3000 new") != std::string::npos);
   CHECK(query(dir.file("h.db"), "PRAGMA integrity_check") == "ok");
   CHECK(query(dir.file("h.db"), "SELECT count(*) FROM landing") == "3005");
+}
+
+TEST_CASE("store: a migration another process applied while this one waited is not applied again") {
+  // Two processes opening a fresh file at once: both find no schema, one
+  // takes the write lock and migrates, the other must re-read the version
+  // once it has the lock (store.h). Here the "other process" is a second
+  // connection that holds the write lock while the store opens, then copies
+  // a fully migrated schema in and commits.
+  TempDir dir;
+  const std::string reference = dir.file("reference.db"), db = dir.file("h.db");
+  std::string error;
+  REQUIRE(HistoryStore::open(reference, HistoryStore::Mode::create, &error));
+
+  sqlite3* other = nullptr;
+  REQUIRE(sqlite3_open(db.c_str(), &other) == SQLITE_OK);
+  auto exec = [&](const std::string& sql) {
+    char* message = nullptr;
+    int rc = sqlite3_exec(other, sql.c_str(), nullptr, nullptr, &message);
+    INFO(sql << ": " << (message ? message : ""));
+    sqlite3_free(message);
+    REQUIRE(rc == SQLITE_OK);
+  };
+  exec("PRAGMA journal_mode=WAL");
+  exec("ATTACH DATABASE '" + reference + "' AS ref");
+  exec("BEGIN IMMEDIATE");
+
+  std::atomic<bool> opened{false};
+  std::unique_ptr<HistoryStore> store;
+  std::string open_error;
+  std::thread opener([&] {
+    store = HistoryStore::open(db, HistoryStore::Mode::create, &open_error);
+    opened = true;
+  });
+  std::this_thread::sleep_for(std::chrono::milliseconds(500));
+  CHECK_FALSE(opened);  // it waits for the write lock
+
+  std::vector<std::string> schema;
+  sqlite3_stmt* st = nullptr;
+  REQUIRE(sqlite3_prepare_v2(other, "SELECT sql FROM ref.sqlite_master WHERE sql IS NOT NULL ORDER BY rowid", -1, &st,
+                             nullptr) == SQLITE_OK);
+  while (sqlite3_step(st) == SQLITE_ROW) schema.emplace_back(reinterpret_cast<const char*>(sqlite3_column_text(st, 0)));
+  sqlite3_finalize(st);
+  REQUIRE(!schema.empty());
+  for (const std::string& sql : schema) exec(sql);
+  exec("INSERT INTO schema_migrations SELECT * FROM ref.schema_migrations");
+  exec("PRAGMA main.application_id=" + query(reference, "PRAGMA application_id"));
+  exec("COMMIT");
+  opener.join();
+  sqlite3_close(other);
+
+  INFO(open_error);
+  REQUIRE(store);
+  CHECK(store->schema_version(&error) == current_schema_version());
+  CHECK(query(db, "SELECT count(*) FROM schema_migrations") == std::to_string(current_schema_version()));
+  CHECK(query(db, "PRAGMA integrity_check") == "ok");
 }
 
 // Regression: 3-6 of 100 races of `record` on a new database failed at once

@@ -29,6 +29,16 @@ struct YamlNode {
   std::vector<YamlNode> items;                          // sequences
   std::vector<std::pair<YamlNode, YamlNode>> entries;   // maps, in file order
 
+  // Declared here, defined (defaulted) in yaml_tree.cpp where YamlNode is
+  // complete: clang with libstdc++ cannot instantiate them for a pair of the
+  // type being defined (the fuzz build uses clang).
+  YamlNode();
+  YamlNode(const YamlNode&);
+  YamlNode(YamlNode&&) noexcept;
+  YamlNode& operator=(const YamlNode&);
+  YamlNode& operator=(YamlNode&&) noexcept;
+  ~YamlNode();
+
   bool is_map() const { return kind == Kind::map; }
   bool is_sequence() const { return kind == Kind::sequence; }
   bool is_scalar() const { return kind == Kind::scalar; }
