@@ -48,7 +48,7 @@ DurationParse parse_duration(std::string_view text) {
     if (text[i] == 'T') {
       if (in_time) return fail("'T' appears twice", i);
       in_time = true;
-      last_rank = 10;
+      last_rank = 9;  // below H (rank 10): the first time unit may be any, a repeat of it is caught
       ++i;
       if (i == text.size()) return fail("expected hours, minutes or seconds after 'T'", i);
       continue;
@@ -77,7 +77,7 @@ DurationParse parse_duration(std::string_view text) {
                   i);
     }
     int full_rank = static_cast<int>(rank) + (in_time ? 10 : 0);
-    if (full_rank <= last_rank && last_rank != 10) return fail(std::string("unit '") + unit + "' is out of order or repeated", i);
+    if (full_rank <= last_rank) return fail(std::string("unit '") + unit + "' is out of order or repeated", i);
     last_rank = full_rank;
     static constexpr int64_t kDateMult[] = {604800, 86400};
     static constexpr int64_t kTimeMult[] = {3600, 60, 1};
