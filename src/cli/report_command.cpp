@@ -10,6 +10,7 @@
 
 #include "catalog/outcome_resolver.h"
 #include "catalog/proposal.h"
+#include "catalog/retrieval.h"
 #include "catalog/reuse.h"
 #include "cli/catalog_session.h"
 #include "cli/commands.h"
@@ -157,20 +158,23 @@ int screen(const ReportOptions& o, const Plan& plan, Screening* s) {
     std::cerr << diags.render();
     return kExitBadInput;
   }
-  std::string error;
-  s->entries = s->session.index->entries(&error);
-  if (!error.empty()) {
-    std::cerr << "readyby: cannot read the catalogue index: " << error << "\n";
-    return kExitBadInput;
-  }
   const Proposal& p = *s->proposal;
   int model = plan.find_model(p.model);
   if (run_instants(plan, plan.models[static_cast<size_t>(model)], *o.from, o.days).empty()) {
     std::cerr << "readyby: model '" << p.model << "' has no runs in the report's window; widen --days\n";
     return kExitBadInput;
   }
-  OutcomeResolution resolution = OutcomeResolver(s->session.vocabulary).resolve(p.outcome);
-  ReuseReport reuse = match_proposal(p, resolution, s->session.vocabulary, s->entries);
+  // The same retrieval and matching as `intake` and `reuse` (docs/reuse.md).
+  OutcomeResolver resolver(s->session.vocabulary);
+  std::string error;
+  Retrieved retrieved = retrieve_candidates(*s->session.index, p, resolver, s->session.vocabulary, &error);
+  if (!error.empty()) {
+    std::cerr << "readyby: cannot read the catalogue index: " << error << "\n";
+    return kExitBadInput;
+  }
+  s->entries = std::move(retrieved.entries);  // the report's candidates point into these
+  ReuseReport reuse =
+      match_proposal(p, resolver, s->session.vocabulary, s->entries, retrieved.signals, s->session.index->size());
   s->report = screen_intake(p, plan, model, *o.from, o.days, std::move(reuse), s->session.vocabulary);
   return kExitOk;
 }
