@@ -1,10 +1,20 @@
 #include "plan/lineage.h"
 
+// GCC 12 reports -Wmaybe-uninitialized inside Boost.Graph's edge iterator
+// (boost::optional storage it fills before use); the warning is in the
+// library's headers, not in this file, so it is silenced for them only.
+#if defined(__GNUC__) && !defined(__clang__)
+#pragma GCC diagnostic push
+#pragma GCC diagnostic ignored "-Wmaybe-uninitialized"
+#endif
 #include <boost/graph/adjacency_list.hpp>
 #include <boost/graph/breadth_first_search.hpp>
 #include <boost/pending/queue.hpp>
 #include <boost/graph/depth_first_search.hpp>
 #include <boost/graph/topological_sort.hpp>
+#if defined(__GNUC__) && !defined(__clang__)
+#pragma GCC diagnostic pop
+#endif
 
 #include <algorithm>
 #include <functional>
