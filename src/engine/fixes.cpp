@@ -298,6 +298,9 @@ class EditTrial {
   std::vector<std::optional<int64_t>> memo_;
 };
 
+// Only the first guess of the search below: the size printed is the least
+// whole number of minutes that re-evaluation finds to clear the pattern, so
+// the rounding here changes how many evaluations it takes, never the fix.
 int64_t minutes_up(int64_t seconds) { return seconds <= 0 ? 1 : (seconds + 59) / 60; }
 
 // Smallest x in [1, cap] with passes(x) and !passes(x - 1), starting from
