@@ -51,7 +51,7 @@
 #include "forecast/draw_engine.h"
 #include "forecast/landing_model.h"
 #include "history/stats.h"
-#include "history/store.h"
+#include "history/history.h"
 #include "plan/plan.h"
 
 namespace readyby {

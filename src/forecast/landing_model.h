@@ -50,7 +50,7 @@
 #include <optional>
 #include <vector>
 
-#include "history/store.h"
+#include "history/history.h"
 #include "plan/plan.h"
 #include "time/instant.h"
 

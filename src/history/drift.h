@@ -21,7 +21,7 @@
 #include <string>
 #include <vector>
 
-#include "history/store.h"
+#include "history/history.h"
 #include "plan/plan.h"
 #include "time/instant.h"
 

@@ -49,7 +49,7 @@
 #include "engine/patterns.h"
 #include "history/drift.h"
 #include "history/stats.h"
-#include "history/store.h"
+#include "history/history.h"
 #include "plan/plan.h"
 
 namespace readyby {

@@ -33,6 +33,7 @@
 #include <string>
 #include <vector>
 
+#include "history/history.h"
 #include "history/landing_log.h"
 #include "plan/plan.h"
 #include "time/instant.h"
@@ -40,19 +41,6 @@
 struct sqlite3;
 
 namespace readyby {
-
-/// A recorded delivery of one node, as stored.
-struct StoredLanding {
-  Instant landed_at;
-  Instant data_through;
-  std::optional<Instant> scheduled_at;
-  LandingStatus status = LandingStatus::ok;
-};
-
-/// Recorded deliveries by plan node index. nullopt: the node has no row ever
-/// recorded (it is unmonitored); a present but empty list: the node has rows,
-/// none of them within the range asked for.
-using History = std::vector<std::optional<std::vector<StoredLanding>>>;
 
 /// The schema version this build writes (the number of migrations it knows).
 int current_schema_version();
