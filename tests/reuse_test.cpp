@@ -3,7 +3,7 @@
 #include "catalog/outcome_resolver.h"
 #include "catalog/proposal.h"
 #include "catalog/reuse.h"
-#include "catalog/reuse_writer.h"
+#include "report/reuse_writer.h"
 #include "catalog_fixture.h"
 
 using namespace readyby;

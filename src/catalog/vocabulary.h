@@ -16,6 +16,7 @@
 #include <vector>
 
 #include "util/diagnostics.h"
+#include "util/files.h"
 
 namespace readyby {
 
@@ -90,14 +91,6 @@ class Vocabulary {
   }
   std::map<std::string, size_t> outcome_index_, setting_index_, time_point_index_, element_index_;
   std::map<std::string, std::vector<std::string>> ancestors_, descendants_;
-};
-
-/// One input file: its path (as shown in diagnostics) and its text.
-struct SourceFile {
-  std::string path;
-  std::string text;
-  int64_t size = -1;       // bytes, when listed with read_registries; -1 unknown
-  int64_t mtime_ns = -1;   // last modification (ns since the epoch); -1 unknown
 };
 
 /// Loads and validates the vocabulary `files` into `out`, reporting every

@@ -6,7 +6,7 @@
 #include "catalog/proposal.h"
 #include "catalog/retrieval.h"
 #include "catalog/reuse.h"
-#include "catalog/reuse_writer.h"
+#include "report/reuse_writer.h"
 #include "cli/catalog_session.h"
 #include "cli/commands.h"
 #include "cli/options.h"

@@ -16,24 +16,6 @@
 
 namespace readyby {
 
-bool read_file(const std::string& path, std::string* out) {
-  std::ifstream in(path, std::ios::binary);
-  if (!in) return false;
-  std::ostringstream ss;
-  ss << in.rdbuf();
-  if (in.bad()) return false;
-  *out = ss.str();
-  return true;
-}
-
-bool valid_id(std::string_view id) {
-  if (id.empty()) return false;
-  return std::all_of(id.begin(), id.end(), [](char c) {
-    return (c >= 'a' && c <= 'z') || (c >= 'A' && c <= 'Z') || (c >= '0' && c <= '9') || c == '_' || c == '.' ||
-           c == '-';
-  });
-}
-
 namespace {
 
 const std::vector<std::string> kRootKeys = {"plan", "title", "timezone", "calendars", "sources", "jobs", "features", "models"};

@@ -15,6 +15,7 @@
 
 #include "plan/plan.h"
 #include "util/diagnostics.h"
+#include "util/files.h"  // read_file, valid_id
 
 namespace readyby {
 
@@ -31,11 +32,5 @@ struct PlanLoadResult {
 PlanLoadResult load_plan_text(const std::string& text, const std::string& path);
 /// Reads and loads the plan file at `path` (an unreadable file is one error).
 PlanLoadResult load_plan_file(const std::string& path);
-
-/// Reads a whole file; false when it cannot be read.
-bool read_file(const std::string& path, std::string* out);
-
-/// Whether `id` is a valid plan id: [A-Za-z0-9_.-]+.
-bool valid_id(std::string_view id);
 
 }  // namespace readyby

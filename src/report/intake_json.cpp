@@ -1,4 +1,4 @@
-#include "catalog/reuse_writer.h"
+#include "report/reuse_writer.h"
 #include "report/intake_report.h"
 #include "util/text.h"
 
