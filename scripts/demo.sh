@@ -20,7 +20,9 @@ run margins "$PLAN" --from 2026-02-22 --days 28
 run impact "$PLAN" --from 2026-02-22 --days 28
 # Nightly monitoring: record 60 days of fictional landings (twice: the second
 # time adds nothing), then check one day against what actually landed.
-DB="$(mktemp -d)/history.db"
+DB_DIR="$(mktemp -d)"
+trap 'rm -rf "$DB_DIR"' EXIT
+DB="$DB_DIR/history.db"
 run record pipelines/landing-logs/feeds-2026-01.csv pipelines/landing-logs/feeds-2026-02.csv \
     pipelines/landing-logs/feeds-2026-03.csv --plan "$PLAN" --db "$DB"
 run record pipelines/landing-logs/integration-server.jsonl --plan "$PLAN" --db "$DB" \
