@@ -33,6 +33,10 @@ fi
 # setup.sh installs the rest and builds (the readyby binary too, instrumented).
 CXX_COMPILER="$(command -v clang++-14 || command -v clang++)"
 scripts/setup.sh build-fuzz -DREADYBY_FUZZ=ON -DREADYBY_TESTS=OFF -DCMAKE_CXX_COMPILER="$CXX_COMPILER"
+# Our code compiles without warnings under clang too.
+if grep -E "^(/.*)?(src|tests|bench)/.*warning:" build-fuzz/build.log; then
+  echo "readyby: the clang build has warnings" >&2; exit 1
+fi
 
 if (($#)); then
   targets=("$@")

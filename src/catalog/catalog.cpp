@@ -229,7 +229,10 @@ class EntryParser {
       return;
     }
     r_.check_keys(*per, kPerKeys, per_what);
-    bool both = r_.require(*per, "amount", per_what, per->pos) & r_.require(*per, "unit", per_what, per->pos);
+    // Both are checked (no short circuit), so that a 'per' missing both keys reports both.
+    const bool has_amount = r_.require(*per, "amount", per_what, per->pos);
+    const bool has_unit = r_.require(*per, "unit", per_what, per->pos);
+    const bool both = has_amount && has_unit;
     std::optional<double> amount = r_.number(*per, "amount", per_what);
     std::string unit = r_.text(*per, "unit", per_what).value_or("");
     double per_amount = amount.value_or(0);
