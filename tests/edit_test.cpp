@@ -348,3 +348,42 @@ TEST_CASE("what-if equals check on the plan with the edits written in, on random
   CHECK(changed_runs >= 40);      // the edits do change outcomes
   CHECK(partial_rebuilds > 100);  // and most re-evaluations rebuild a part only
 }
+
+TEST_CASE("a schedule edit is refused exactly when the loader would refuse the plan with it written in") {
+  // A yearly job on a calendar that skips five new years in a row: it fires
+  // in 2026 and again only in 2032, a silence longer than the 1,462-day
+  // horizon. The loader refuses such a schedule whatever today is; an edit to
+  // it must be refused too (once, it was checked from one fixed date only).
+  const std::string plan_text = R"(plan: silent
+timezone: Europe/Berlin
+calendars:
+  closures:
+    skip_dates: [2027-01-01, 2028-01-01, 2029-01-01, 2030-01-01, 2031-01-01]
+sources:
+  feed:
+    schedule: "0 5 * * *"
+    calendar: closures
+features:
+  f:
+    inputs: [feed]
+    max_age: P2D
+models:
+  m:
+    features: [f]
+    runs:
+      - at: "0 8 * * *"
+)";
+  Plan plan = plan_from_text(plan_text.c_str());
+  EditParse yearly = parse_edit_value(plan, EditKind::schedule, "feed=0 5 1 1 *");
+  CHECK_FALSE(yearly.value);
+  CHECK(yearly.error.starts_with("the schedule '0 5 1 1 *' of source 'feed' never fires under calendar 'closures': "
+                                 "no occurrence within 1,462 days after 2026-01-01T"));
+  // The same schedule written into the plan: the loader says the same.
+  std::string written = plan_text;
+  written.replace(written.find("\"0 5 * * *\""), 11, "\"0 5 1 1 *\"");
+  PlanLoadResult loaded = load_plan_text(written, "silent.yaml");
+  CHECK_FALSE(loaded.plan);
+  CHECK(loaded.rendered.find("never fires under calendar 'closures'") != std::string::npos);
+  // A monthly schedule fires around the skipped dates: accepted by both.
+  CHECK(parse_edit_value(plan, EditKind::schedule, "feed=0 5 1 * *").value);
+}

@@ -76,13 +76,16 @@ int find_target(const Plan& plan, EditKind kind, const std::string& id, std::str
   return -1;
 }
 
-// A schedule that cannot fire on any date (e.g. "0 0 30 2 *", or only on
-// dates the node's calendar skips): checked from a fixed instant, because
-// whether a pattern fires at all does not depend on when one asks (apart from
-// a calendar's explicit dates, which the loader checks from today).
-bool never_fires(const Cron& cron, const Zone& zone, const Calendar& calendar) {
-  const Instant from = from_unix(946684800);  // 2000-01-01T00:00:00Z
-  return !next_occurrence(cron, zone, calendar, from);
+// The loader's rule for schedules (cron.h fires_in_every_window): a schedule
+// must fire in every window of the horizon, whatever the date, so that an
+// edit is refused exactly when the plan with the edit written in would be.
+// Returns "" when it does, else the words that follow the schedule's name.
+std::string silence(const Cron& cron, const Zone& zone, const Calendar& calendar, const std::string& calendar_name) {
+  const SilenceCheck check = fires_in_every_window(cron, zone, calendar);
+  if (check.fires) return "";
+  std::string text = calendar_name.empty() ? "" : " under calendar '" + calendar_name + "'";
+  if (check.after) return text + ": no occurrence within 1,462 days after " + format_rfc3339(*check.after, nullptr);
+  return text + " (no occurrence within 1,462 days)";
 }
 
 }  // namespace
@@ -108,8 +111,8 @@ std::string edit_problem(const Plan& plan, const Edit& e) {
     if (e.target < 0 || static_cast<size_t>(e.target) >= plan.models.size()) return "no such model";
     if (!e.cron) return "runs needs a cron expression";
     const Model& model = plan.models[static_cast<size_t>(e.target)];
-    if (never_fires(*e.cron, *model.zone, Calendar{})) {
-      return "the runs '" + e.cron->text + "' of model '" + model.id + "' never fire (no occurrence within 1,462 days)";
+    if (std::string words = silence(*e.cron, *model.zone, Calendar{}, ""); !words.empty()) {
+      return "the runs '" + e.cron->text + "' of model '" + model.id + "' never fire" + words;
     }
     return "";
   }
@@ -134,10 +137,11 @@ std::string edit_problem(const Plan& plan, const Edit& e) {
         }
         return "";
       }
-      if (never_fires(*e.cron, *node.zone, plan.calendar(node.calendar))) {
+      if (std::string words = silence(*e.cron, *node.zone, plan.calendar(node.calendar),
+                                      node.calendar >= 0 ? plan.calendar(node.calendar).name : "");
+          !words.empty()) {
         return "the schedule '" + e.cron->text + "' of " + to_string(node.kind) + " '" + node.id + "' never fires" +
-               (node.calendar >= 0 ? " under calendar '" + plan.calendar(node.calendar).name + "'" : "") +
-               " (no occurrence within 1,462 days)";
+               words;
       }
       return "";
     case EditKind::max_age:
