@@ -15,22 +15,10 @@ cd "$(dirname "$0")/.."
 SECONDS_PER_TARGET="${1:-30}"
 shift || true
 
-FUZZ_PACKAGES=(clang libfuzzer-14-dev)
-missing=()
-for p in "${FUZZ_PACKAGES[@]}"; do
-  if ! dpkg-query -W -f='${Status}' "$p" 2>/dev/null | grep -q "install ok installed"; then
-    missing+=("$p")
-  fi
-done
-if ((${#missing[@]})); then
-  echo "readyby: installing missing packages: ${missing[*]}"
-  SUDO=""
-  if [ "$(id -u)" -ne 0 ]; then SUDO="sudo"; fi
-  $SUDO apt-get update -qq
-  DEBIAN_FRONTEND=noninteractive $SUDO apt-get install -y -qq "${missing[@]}" >/dev/null
-fi
-
-# setup.sh installs the rest and builds (the readyby binary too, instrumented).
+# setup.sh installs what is missing (clang and libFuzzer besides the usual
+# packages) and builds (the readyby binary too, instrumented).
+export READYBY_EXTRA_PACKAGES="clang libfuzzer-14-dev"
+scripts/setup.sh --install-only
 CXX_COMPILER="$(command -v clang++-14 || command -v clang++)"
 scripts/setup.sh build-fuzz -DREADYBY_FUZZ=ON -DREADYBY_TESTS=OFF -DCMAKE_CXX_COMPILER="$CXX_COMPILER"
 # Our code compiles without warnings under clang too.
