@@ -224,6 +224,14 @@ TEST_CASE("unknown options are named, with the nearest option of the command") {
       {"catalog search sepsis --limt 3", "readyby: unknown option '--limt' (did you mean '--limit'?)\n"},
       {"catalog show --registy x lace", "readyby: unknown option '--registy' (did you mean '--registry'?)\n"},
       {"reuse p.yaml --xyz", "readyby: unknown option '--xyz'\n"},
+      // Every command parses through one option table (cli/options.h), so
+      // these get the nearest option too.
+      {"margins " + kDemo + " --verfy", "readyby: unknown option '--verfy' (did you mean '--verify'?)\n"},
+      {"impact " + kDemo + " --verify", "readyby: unknown option '--verify'\n"},
+      {"what-if " + kDemo + " --dealy lab_results=PT1H", "readyby: unknown option '--dealy' (did you mean '--delay'?)\n"},
+      {"report " + kDemo + " --outt r.html", "readyby: unknown option '--outt' (did you mean '--out'?)\n"},
+      {"forecast " + kDemo + " --drwas 5", "readyby: unknown option '--drwas' (did you mean '--draws'?)\n"},
+      {"margins " + kDemo + " --verify=yes", "readyby: --verify takes no value\n"},
   };
   for (const Case& c : cases) {
     INFO(c.args);

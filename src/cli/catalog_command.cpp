@@ -29,13 +29,9 @@ void print_cautions(const char* indent) {
 
 int catalog_validate(std::vector<std::string> args) {
   std::vector<std::string> registries;
-  std::string problem = take_registries(&args, &registries);
-  if (!problem.empty()) return usage_error(problem, self().usage);
-  if (!args.empty()) {
-    return usage_error(args[0].starts_with("-") ? unknown_option(args[0], self().usage)
-                                                : "catalog validate takes only --registry DIR options",
-                       self().usage);
-  }
+  ArgTable table{{registry_rule(&registries)},
+                 [](const std::string&) { return std::string("catalog validate takes only --registry DIR options"); }};
+  if (std::string problem = parse_args(args, table); !problem.empty()) return usage_error(problem, self().usage);
   std::string not_found;
   registries = registry_layers(registries, &not_found);
   if (registries.empty()) {
@@ -68,38 +64,38 @@ struct SearchOptions {
   size_t limit = 20;
 };
 
-std::string parse_search_args(const std::vector<std::string>& args, SearchOptions* o) {
-  for (size_t i = 0; i < args.size(); ++i) {
-    const std::string& a = args[i];
-    if (is_option(a, "--setting")) {
-      auto v = option_value(args, &i, "--setting");
-      if (!v) return "--setting needs a setting id";
-      o->setting = *v;
-    } else if (is_option(a, "--outcome")) {
-      auto v = option_value(args, &i, "--outcome");
-      if (!v) return "--outcome needs a concept id or text";
-      o->outcome = *v;
-    } else if (std::string error; take_format(args, &i, {"text", "json"}, &o->format, &error)) {
-      if (!error.empty()) return error;
-    } else if (is_option(a, "--limit")) {
-      std::optional<long> n = whole_number(option_value(args, &i, "--limit"), 1, 10000);
-      if (!n) return "--limit needs a whole number from 1 to 10000";
-      o->limit = static_cast<size_t>(*n);
-    } else if (a.starts_with("-")) {
-      return unknown_option(a, self().usage);
-    } else {
-      o->text += (o->text.empty() ? "" : " ") + a;
-    }
-  }
+std::string parse_search_args(const std::vector<std::string>& args, SearchOptions* o,
+                              std::vector<std::string>* registries) {
+  ArgTable table{{format_rule({"text", "json"}, &o->format), registry_rule(registries)},
+                 [o](const std::string& word) {
+                   o->text += (o->text.empty() ? "" : " ") + word;
+                   return std::string();
+                 }};
+  table.options.push_back({"--setting", true, [o](const std::optional<std::string>& v) {
+                             if (!v) return std::string("--setting needs a setting id");
+                             o->setting = *v;
+                             return std::string();
+                           }});
+  table.options.push_back({"--outcome", true, [o](const std::optional<std::string>& v) {
+                             if (!v) return std::string("--outcome needs a concept id or text");
+                             o->outcome = *v;
+                             return std::string();
+                           }});
+  table.options.push_back({"--limit", true, [o](const std::optional<std::string>& v) {
+                             std::optional<long> n = whole_number(v, 1, 10000);
+                             if (!n) return std::string("--limit needs a whole number from 1 to 10000");
+                             o->limit = static_cast<size_t>(*n);
+                             return std::string();
+                           }});
+  if (std::string error = parse_args(args, table); !error.empty()) return error;
   if (o->text.empty()) return "catalog search needs TEXT";
   return "";
 }
 
 int catalog_search(std::vector<std::string> args) {
   std::vector<std::string> registries;
-  std::string problem = take_registries(&args, &registries);
   SearchOptions o;
-  if (problem.empty()) problem = parse_search_args(args, &o);
+  std::string problem = parse_search_args(args, &o, &registries);
   if (!problem.empty()) return usage_error(problem, self().usage);
   CatalogSession session;
   if (int rc = open_catalog(registries, true, &session); rc != kExitOk) return rc;
@@ -210,12 +206,15 @@ void print_entry(const Entry& e, const Vocabulary& v) {
 
 int catalog_show(std::vector<std::string> args) {
   std::vector<std::string> registries;
-  std::string problem = take_registries(&args, &registries);
-  for (const std::string& a : args) {
-    if (problem.empty() && a.starts_with("-")) problem = unknown_option(a, self().usage);
-  }
-  if (problem.empty() && args.size() != 1) problem = "catalog show needs one entry ID";
+  std::vector<std::string> ids_given;
+  ArgTable table{{registry_rule(&registries)}, [&ids_given](const std::string& id) {
+                   ids_given.push_back(id);
+                   return std::string();
+                 }};
+  std::string problem = parse_args(args, table);
+  if (problem.empty() && ids_given.size() != 1) problem = "catalog show needs one entry ID";
   if (!problem.empty()) return usage_error(problem, self().usage);
+  args = ids_given;
   CatalogSession session;
   if (int rc = open_catalog(registries, true, &session); rc != kExitOk) return rc;
   std::string error;

@@ -64,22 +64,6 @@ std::vector<std::string> registry_layers(const std::vector<std::string>& extra, 
   return layers;
 }
 
-std::string take_registries(std::vector<std::string>* args, std::vector<std::string>* registries) {
-  std::vector<std::string> rest;
-  for (size_t i = 0; i < args->size(); ++i) {
-    const std::string& a = (*args)[i];
-    if (is_option(a, "--registry")) {
-      std::optional<std::string> folder = option_value(*args, &i, "--registry");
-      if (!folder || folder->empty()) return "--registry needs a folder";
-      registries->push_back(*folder);
-    } else {
-      rest.push_back(a);
-    }
-  }
-  *args = std::move(rest);
-  return "";
-}
-
 int open_catalog(const std::vector<std::string>& extra, bool with_index, CatalogSession* session) {
   std::string problem;
   std::vector<std::string> registries = registry_layers(extra, &problem);

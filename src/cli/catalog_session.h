@@ -42,8 +42,5 @@ struct CatalogSession {
 /// prints the errors to stderr and returns kExitBadInput; else kExitOk.
 int open_catalog(const std::vector<std::string>& extra, bool with_index, CatalogSession* session);
 
-/// Takes every `--registry DIR` / `--registry=DIR` out of `args`. Returns an
-/// error message, or "".
-std::string take_registries(std::vector<std::string>* args, std::vector<std::string>* registries);
 
 }  // namespace readyby

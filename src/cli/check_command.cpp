@@ -25,24 +25,16 @@ struct CheckOptions {
 
 // Parses check's arguments; returns an error message or "".
 std::string parse_check_args(const std::vector<std::string>& args, CheckOptions* o) {
-  for (size_t i = 0; i < args.size(); ++i) {
-    const std::string& a = args[i];
-    std::string error;
-    if (take_window(args, &i, &o->from, &o->days, &error) ||
-        take_format(args, &i, {"text", "json"}, &o->format, &error)) {
-      if (!error.empty()) return error;
-    } else if (is_option(a, "--run")) {
-      auto v = option_value(args, &i, "--run");
-      if (!v || v->find('@') == std::string::npos) return "--run needs MODEL@YYYY-MM-DDTHH:MM";
-      o->run = *v;
-    } else if (a.starts_with("-")) {
-      return unknown_option(a, command_named("check").usage);
-    } else if (o->plan_path.empty()) {
-      o->plan_path = a;
-    } else {
-      return "check takes one PLAN file";
-    }
-  }
+  ArgTable table{window_rules(&o->from, &o->days), one_file("check", "PLAN", &o->plan_path)};
+  table.options.push_back(format_rule({"text", "json"}, &o->format));
+  table.options.push_back({"--run", true, [o](const std::optional<std::string>& v) {
+                             if (!v || v->find('@') == std::string::npos) {
+                               return std::string("--run needs MODEL@YYYY-MM-DDTHH:MM");
+                             }
+                             o->run = *v;
+                             return std::string();
+                           }});
+  if (std::string error = parse_args(args, table); !error.empty()) return error;
   if (o->plan_path.empty()) return "check needs a PLAN file";
   if (!o->run.empty() && o->from) return "--run and --from cannot be combined";
   return "";

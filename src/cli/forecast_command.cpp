@@ -41,38 +41,34 @@ std::optional<uint64_t> parse_seed(const std::optional<std::string>& text) {
 }
 
 std::string parse_forecast_args(const std::vector<std::string>& args, ForecastCliOptions* o) {
-  for (size_t i = 0; i < args.size(); ++i) {
-    const std::string& a = args[i];
-    std::string error;
-    if (is_option(a, "--db")) {
-      auto v = option_value(args, &i, "--db");
-      if (!v || v->empty()) return "--db needs a FILE";
-      o->db_path = *v;
-    } else if (is_option(a, "--draws")) {
-      std::optional<long> n = whole_number(option_value(args, &i, "--draws"), 1, 1000000);
-      if (!n) return "--draws needs a whole number from 1 to 1000000";
-      o->forecast.draws = static_cast<int>(*n);
-    } else if (is_option(a, "--seed")) {
-      std::optional<uint64_t> seed = parse_seed(option_value(args, &i, "--seed"));
-      if (!seed) return "--seed needs a whole number from 0 to 18446744073709551615";
-      o->forecast.seed = *seed;
-    } else if (is_option(a, "--backtest-from")) {
-      auto v = option_value(args, &i, "--backtest-from");
-      if (!v || !(o->backtest_from = parse_date(*v))) return "--backtest-from needs a date YYYY-MM-DD";
-    } else if (is_option(a, "--days")) {
-      if (take_window(args, &i, &o->from, &o->days, &error) && !error.empty()) return error;
-      o->days_given = true;
-    } else if (take_window(args, &i, &o->from, &o->days, &error) ||
-               take_format(args, &i, {"text", "json"}, &o->format, &error)) {
-      if (!error.empty()) return error;
-    } else if (a.starts_with("-")) {
-      return unknown_option(a, command_named("forecast").usage);
-    } else if (o->plan_path.empty()) {
-      o->plan_path = a;
-    } else {
-      return "forecast takes one PLAN file";
-    }
-  }
+  ArgTable table{window_rules(&o->from, &o->days), one_file("forecast", "PLAN", &o->plan_path)};
+  // --days also says that the window was chosen (a backtest otherwise runs to the end of the history).
+  OptionRule& days = table.options[1];
+  days.take = [o, inner = days.take](const std::optional<std::string>& v) {
+    o->days_given = true;
+    return inner(v);
+  };
+  table.options.push_back(format_rule({"text", "json"}, &o->format));
+  table.options.push_back(path_rule("--db", "a FILE", &o->db_path));
+  table.options.push_back({"--draws", true, [o](const std::optional<std::string>& v) {
+                             std::optional<long> n = whole_number(v, 1, 1000000);
+                             if (!n) return std::string("--draws needs a whole number from 1 to 1000000");
+                             o->forecast.draws = static_cast<int>(*n);
+                             return std::string();
+                           }});
+  table.options.push_back({"--seed", true, [o](const std::optional<std::string>& v) {
+                             std::optional<uint64_t> seed = parse_seed(v);
+                             if (!seed) return std::string("--seed needs a whole number from 0 to 18446744073709551615");
+                             o->forecast.seed = *seed;
+                             return std::string();
+                           }});
+  table.options.push_back({"--backtest-from", true, [o](const std::optional<std::string>& v) {
+                             if (!v || !(o->backtest_from = parse_date(*v))) {
+                               return std::string("--backtest-from needs a date YYYY-MM-DD");
+                             }
+                             return std::string();
+                           }});
+  if (std::string error = parse_args(args, table); !error.empty()) return error;
   if (o->plan_path.empty()) return "forecast needs a PLAN file";
   if (o->backtest_from && o->from) return "--backtest-from and --from do not go together (the backtest starts at its date)";
   return "";

@@ -34,26 +34,12 @@ struct IntakeOptions {
 };
 
 // Parses intake's arguments; returns an error message or "".
-std::string parse_intake_args(std::vector<std::string> args, IntakeOptions* o) {
-  if (std::string problem = take_registries(&args, &o->registries); !problem.empty()) return problem;
-  for (size_t i = 0; i < args.size(); ++i) {
-    const std::string& a = args[i];
-    std::string error;
-    if (is_option(a, "--db")) {
-      auto v = option_value(args, &i, "--db");
-      if (!v || v->empty()) return "--db needs a FILE";
-      o->db_path = *v;
-    } else if (take_window(args, &i, &o->from, &o->days, &error) ||
-        take_format(args, &i, {"text", "json", "markdown"}, &o->format, &error)) {
-      if (!error.empty()) return error;
-    } else if (a.starts_with("-")) {
-      return unknown_option(a, command_named("intake").usage);
-    } else if (o->proposal_path.empty()) {
-      o->proposal_path = a;
-    } else {
-      return "intake takes one PROPOSAL file";
-    }
-  }
+std::string parse_intake_args(const std::vector<std::string>& args, IntakeOptions* o) {
+  ArgTable table{window_rules(&o->from, &o->days), one_file("intake", "PROPOSAL", &o->proposal_path)};
+  table.options.push_back(format_rule({"text", "json", "markdown"}, &o->format));
+  table.options.push_back(path_rule("--db", "a FILE", &o->db_path));
+  table.options.push_back(registry_rule(&o->registries));
+  if (std::string error = parse_args(args, table); !error.empty()) return error;
   if (o->proposal_path.empty()) return "intake needs a PROPOSAL file";
   return "";
 }

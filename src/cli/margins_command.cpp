@@ -23,23 +23,15 @@ struct WindowOptions {
 };
 
 std::string parse_window_args(const char* command, const std::vector<std::string>& args, WindowOptions* o) {
-  const bool margins = std::string_view(command) == "margins";
-  for (size_t i = 0; i < args.size(); ++i) {
-    const std::string& a = args[i];
-    std::string error;
-    if (take_window(args, &i, &o->from, &o->days, &error) ||
-        take_format(args, &i, {"text", "json"}, &o->format, &error)) {
-      if (!error.empty()) return error;
-    } else if (margins && a == "--verify") {
-      o->verify = true;
-    } else if (a.starts_with("-")) {
-      return "unknown option '" + a + "'";
-    } else if (o->plan_path.empty()) {
-      o->plan_path = a;
-    } else {
-      return std::string(command) + " takes one PLAN file";
-    }
+  ArgTable table{window_rules(&o->from, &o->days), one_file(command, "PLAN", &o->plan_path)};
+  table.options.push_back(format_rule({"text", "json"}, &o->format));
+  if (std::string_view(command) == "margins") {
+    table.options.push_back({"--verify", false, [o](const std::optional<std::string>&) {
+                               o->verify = true;
+                               return std::string();
+                             }});
   }
+  if (std::string error = parse_args(args, table); !error.empty()) return error;
   if (o->plan_path.empty()) return std::string(command) + " needs a PLAN file";
   return "";
 }

@@ -27,30 +27,16 @@ struct NightlyOptions {
 const Command& nightly_command() { return command_named("nightly"); }
 
 std::string parse_nightly_args(const std::vector<std::string>& args, NightlyOptions* o) {
-  for (size_t i = 0; i < args.size(); ++i) {
-    const std::string& a = args[i];
-    if (is_option(a, "--db")) {
-      auto v = option_value(args, &i, "--db");
-      if (!v || v->empty()) return "--db needs a FILE";
-      o->db_path = *v;
-    } else if (is_option(a, "--date")) {
-      auto v = option_value(args, &i, "--date");
-      if (!v || !(o->date = parse_date(*v))) return "--date needs a date YYYY-MM-DD";
-      if (std::string bad = unsupported_date(*o->date); !bad.empty()) return "--date " + bad;
-    } else if (is_option(a, "--window")) {
-      std::optional<long> n = whole_number(option_value(args, &i, "--window"), 1, 366);
-      if (!n) return "--window needs a whole number of days from 1 to 366";
-      o->window = static_cast<int>(*n);
-    } else if (std::string error; take_format(args, &i, {"text", "json", "junit", "metrics"}, &o->format, &error)) {
-      if (!error.empty()) return error;
-    } else if (a.starts_with("-")) {
-      return unknown_option(a, nightly_command().usage);
-    } else if (o->plan_path.empty()) {
-      o->plan_path = a;
-    } else {
-      return "nightly takes one PLAN file";
-    }
-  }
+  ArgTable table{{path_rule("--db", "a FILE", &o->db_path), date_rule("--date", &o->date),
+                  format_rule({"text", "json", "junit", "metrics"}, &o->format)},
+                 one_file("nightly", "PLAN", &o->plan_path)};
+  table.options.push_back({"--window", true, [o](const std::optional<std::string>& v) {
+                             std::optional<long> n = whole_number(v, 1, 366);
+                             if (!n) return std::string("--window needs a whole number of days from 1 to 366");
+                             o->window = static_cast<int>(*n);
+                             return std::string();
+                           }});
+  if (std::string error = parse_args(args, table); !error.empty()) return error;
   if (o->plan_path.empty()) return "nightly needs a PLAN file";
   return "";
 }

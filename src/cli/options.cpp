@@ -46,8 +46,22 @@ size_t typo_distance(std::string_view a, std::string_view b) {
 
 }  // namespace
 
+std::string unknown_option(const std::string& arg, const std::vector<std::string_view>& names) {
+  const std::string name = arg.substr(0, std::min(arg.find('='), size_t{64}));
+  const size_t limit = std::max<size_t>(2, name.size() / 3);  // as util/text.h's nearest()
+  size_t best = limit + 1;
+  std::string found;
+  auto consider = [&](std::string_view k) {
+    const size_t d = typo_distance(name, k);
+    if (d < best) best = d, found = std::string(k);
+  };
+  consider("--help");
+  for (std::string_view k : names) consider(k);
+  return "unknown option '" + arg + "'" + (found.empty() ? "" : " (did you mean '" + found + "'?)");
+}
+
 std::string unknown_option(const std::string& arg, const char* usage) {
-  std::vector<std::string> known = {"--help"};
+  std::vector<std::string> known;
   std::string_view text(usage);
   for (size_t at = text.find("--"); at != std::string_view::npos; at = text.find("--", at + 2)) {
     size_t end = at + 2;
@@ -56,15 +70,100 @@ std::string unknown_option(const std::string& arg, const char* usage) {
     if (name.size() > 2 && std::find(known.begin(), known.end(), name) == known.end()) known.push_back(name);
     at = end - 2;
   }
-  const std::string name = arg.substr(0, std::min(arg.find('='), size_t{64}));
-  const size_t limit = std::max<size_t>(2, name.size() / 3);  // as util/text.h's nearest()
-  size_t best = limit + 1;
-  std::string found;
-  for (const std::string& k : known) {
-    const size_t d = typo_distance(name, k);
-    if (d < best) best = d, found = k;
+  return unknown_option(arg, std::vector<std::string_view>(known.begin(), known.end()));
+}
+
+std::string parse_args(const std::vector<std::string>& args, const ArgTable& table) {
+  for (size_t i = 0; i < args.size(); ++i) {
+    const std::string& a = args[i];
+    if (!a.starts_with("-") || (a == "-" && table.dash_is_positional)) {
+      if (std::string error = table.positional(a); !error.empty()) return error;
+      continue;
+    }
+    const OptionRule* rule = nullptr;
+    for (const OptionRule& r : table.options) {
+      if (is_option(a, r.name)) rule = &r;
+    }
+    if (!rule) {
+      std::vector<std::string_view> names;
+      for (const OptionRule& r : table.options) names.push_back(r.name);
+      return unknown_option(a, names);
+    }
+    std::optional<std::string> value;
+    if (rule->takes_value) {
+      value = option_value(args, &i, rule->name);
+    } else if (a != rule->name) {
+      return std::string(rule->name) + " takes no value";
+    }
+    if (std::string error = rule->take(value); !error.empty()) return error;
   }
-  return "unknown option '" + arg + "'" + (found.empty() ? "" : " (did you mean '" + found + "'?)");
+  return "";
+}
+
+std::vector<OptionRule> window_rules(std::optional<LocalDays>* from, int* days) {
+  return {
+      {"--from", true,
+       [from](const std::optional<std::string>& v) -> std::string {
+         if (!v || !(*from = parse_date(*v))) return "--from needs a date YYYY-MM-DD";
+         if (std::string bad = unsupported_date(**from); !bad.empty()) return "--from " + bad;
+         return "";
+       }},
+      {"--days", true,
+       [days](const std::optional<std::string>& v) -> std::string {
+         std::optional<long> n = whole_number(v, 1, 3660);
+         if (!n) return "--days needs a whole number from 1 to 3660";
+         *days = static_cast<int>(*n);
+         return "";
+       }},
+  };
+}
+
+OptionRule format_rule(std::vector<std::string> allowed, std::string* format) {
+  return {"--format", true, [allowed = std::move(allowed), format](const std::optional<std::string>& v) {
+            for (const std::string& a : allowed) {
+              if (v && *v == a) {
+                *format = a;
+                return std::string();
+              }
+            }
+            std::string list;
+            for (size_t k = 0; k < allowed.size(); ++k) {
+              list += (k == 0 ? "" : k + 1 == allowed.size() ? " or " : ", ") + allowed[k];
+            }
+            return "--format must be " + list;
+          }};
+}
+
+OptionRule path_rule(std::string_view name, std::string what, std::string* path) {
+  return {name, true, [name, what = std::move(what), path](const std::optional<std::string>& v) {
+            if (!v || v->empty()) return std::string(name) + " needs " + what;
+            *path = *v;
+            return std::string();
+          }};
+}
+
+OptionRule date_rule(std::string_view name, std::optional<LocalDays>* date) {
+  return {name, true, [name, date](const std::optional<std::string>& v) {
+            if (!v || !(*date = parse_date(*v))) return std::string(name) + " needs a date YYYY-MM-DD";
+            if (std::string bad = unsupported_date(**date); !bad.empty()) return std::string(name) + " " + bad;
+            return std::string();
+          }};
+}
+
+OptionRule registry_rule(std::vector<std::string>* registries) {
+  return {"--registry", true, [registries](const std::optional<std::string>& v) {
+            if (!v || v->empty()) return std::string("--registry needs a folder");
+            registries->push_back(*v);
+            return std::string();
+          }};
+}
+
+std::function<std::string(const std::string&)> one_file(std::string command, std::string what, std::string* path) {
+  return [command = std::move(command), what = std::move(what), path](const std::string& arg) {
+    if (!path->empty()) return command + " takes one " + what + " file";
+    *path = arg;
+    return std::string();
+  };
 }
 
 std::string name_list(const std::vector<std::string>& names, size_t at_most) {
@@ -93,41 +192,6 @@ std::optional<long> whole_number(const std::optional<std::string>& text, long lo
   long n = std::strtol(text->c_str(), &end, 10);
   if (*end || n < lo || n > hi) return std::nullopt;
   return n;
-}
-
-bool take_format(const std::vector<std::string>& args, size_t* i, const std::vector<std::string>& allowed,
-                 std::string* format, std::string* error) {
-  if (!is_option(args[*i], "--format")) return false;
-  std::optional<std::string> v = option_value(args, i, "--format");
-  for (const std::string& a : allowed) {
-    if (v && *v == a) {
-      *format = a;
-      return true;
-    }
-  }
-  std::string list;
-  for (size_t k = 0; k < allowed.size(); ++k) {
-    list += (k == 0 ? "" : k + 1 == allowed.size() ? " or " : ", ") + allowed[k];
-  }
-  *error = "--format must be " + list;
-  return true;
-}
-
-bool take_window(const std::vector<std::string>& args, size_t* i, std::optional<LocalDays>* from, int* days,
-                 std::string* error) {
-  if (is_option(args[*i], "--from")) {
-    std::optional<std::string> v = option_value(args, i, "--from");
-    if (!v || !(*from = parse_date(*v))) *error = "--from needs a date YYYY-MM-DD";
-    else if (std::string bad = unsupported_date(**from); !bad.empty()) *error = "--from " + bad;
-    return true;
-  }
-  if (is_option(args[*i], "--days")) {
-    std::optional<long> n = whole_number(option_value(args, i, "--days"), 1, 3660);
-    if (n) *days = static_cast<int>(*n);
-    else *error = "--days needs a whole number from 1 to 3660";
-    return true;
-  }
-  return false;
 }
 
 LocalDays today_in(const Zone& zone) {

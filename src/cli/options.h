@@ -2,6 +2,7 @@
 // Small helpers shared by the command handlers: option values, the command's
 // own table entry, and whether to colour output.
 
+#include <functional>
 #include <optional>
 #include <string>
 #include <string_view>
@@ -34,16 +35,48 @@ std::string name_list(const std::vector<std::string>& names, size_t at_most = 20
 /// The command table entry named `name` (which must exist).
 const Command& command_named(std::string_view name);
 
-/// Handles args[*i] when it is `--format`: returns true and sets *format, or
-/// sets *error ("--format must be text or json") when the value is not one of
-/// `allowed`. Returns false when args[*i] is another argument.
-bool take_format(const std::vector<std::string>& args, size_t* i, const std::vector<std::string>& allowed,
-                 std::string* format, std::string* error);
+/// One option of a command's table: its name, whether it takes a value, and
+/// what to do with it. `take` gets the value (nullopt when it is missing, and
+/// always nullopt for a flag) and returns an error message or "".
+struct OptionRule {
+  std::string_view name;  // "--db"
+  bool takes_value = true;
+  std::function<std::string(const std::optional<std::string>& value)> take;
+};
 
-/// Handles args[*i] when it is `--from YYYY-MM-DD` or `--days N` (1-3660),
-/// the window of local dates that `check` and `intake` take; like take_format.
-bool take_window(const std::vector<std::string>& args, size_t* i, std::optional<LocalDays>* from, int* days,
-                 std::string* error);
+/// A command's arguments, declared: its options and what a positional
+/// argument (anything not starting with '-', and "-" itself when
+/// `dash_is_positional`) does.
+struct ArgTable {
+  std::vector<OptionRule> options;
+  std::function<std::string(const std::string& arg)> positional;
+  bool dash_is_positional = false;
+};
+
+/// Walks `args` once against `table`: `--name value` and `--name=value` both
+/// work; an option not in the table is "unknown option" with a did-you-mean
+/// among the table's names; a flag given a value (`--verify=x`) is an error.
+/// Returns the first error, or "".
+std::string parse_args(const std::vector<std::string>& args, const ArgTable& table);
+
+/// Rules shared by several commands.
+/// `--from YYYY-MM-DD` and `--days N` (1-3660): the window of local dates.
+std::vector<OptionRule> window_rules(std::optional<LocalDays>* from, int* days);
+/// `--format` with one of `allowed` ("--format must be text or json").
+OptionRule format_rule(std::vector<std::string> allowed, std::string* format);
+/// An option naming a file or folder: "--db needs a FILE" when missing or empty.
+OptionRule path_rule(std::string_view name, std::string what, std::string* path);
+/// A date option: "--date needs a date YYYY-MM-DD", and the supported range.
+OptionRule date_rule(std::string_view name, std::optional<LocalDays>* date);
+/// `--registry DIR`, repeatable.
+OptionRule registry_rule(std::vector<std::string>* registries);
+/// The positional rule of a command that takes one file: the first sets
+/// `path`, a second is "COMMAND takes one WHAT file".
+std::function<std::string(const std::string&)> one_file(std::string command, std::string what, std::string* path);
+
+/// "unknown option 'ARG'" with " (did you mean 'NAME'?)" when one of `names`
+/// (or --help) is close to ARG.
+std::string unknown_option(const std::string& arg, const std::vector<std::string_view>& names);
 
 /// Today's local date in `zone`.
 LocalDays today_in(const Zone& zone);

@@ -24,33 +24,27 @@ struct RecordOptions {
 const Command& record_command() { return command_named("record"); }
 
 std::string parse_record_args(const std::vector<std::string>& args, RecordOptions* o) {
-  for (size_t i = 0; i < args.size(); ++i) {
-    const std::string& a = args[i];
-    if (is_option(a, "--plan")) {
-      auto v = option_value(args, &i, "--plan");
-      if (!v || v->empty()) return "--plan needs a PLAN file";
-      o->plan_path = *v;
-    } else if (is_option(a, "--db")) {
-      auto v = option_value(args, &i, "--db");
-      if (!v || v->empty()) return "--db needs a FILE";
-      o->db_path = *v;
-    } else if (is_option(a, "--map")) {
-      auto v = option_value(args, &i, "--map");
-      if (!v) return "--map needs FIELD=COLUMN pairs";
-      std::string problem;
-      std::optional<ColumnMap> map = parse_column_map(*v, &problem);
-      if (!map) return problem;
-      o->map.column = map->column;
-    } else if (is_option(a, "--map-status")) {
-      auto v = option_value(args, &i, "--map-status");
-      if (!v) return "--map-status needs VALUE=ok|failed|skip pairs";
-      if (std::string problem; !parse_status_map(*v, &o->map, &problem)) return problem;
-    } else if (a.starts_with("-") && a != "-") {
-      return unknown_option(a, record_command().usage);
-    } else {
-      o->logs.push_back(a);
-    }
-  }
+  ArgTable table{{path_rule("--plan", "a PLAN file", &o->plan_path), path_rule("--db", "a FILE", &o->db_path)},
+                 [o](const std::string& log) {
+                   o->logs.push_back(log);
+                   return std::string();
+                 },
+                 true};  // "-" is a file name here, not an option
+  table.options.push_back({"--map", true, [o](const std::optional<std::string>& v) {
+                             if (!v) return std::string("--map needs FIELD=COLUMN pairs");
+                             std::string problem;
+                             std::optional<ColumnMap> map = parse_column_map(*v, &problem);
+                             if (!map) return problem;
+                             o->map.column = map->column;
+                             return std::string();
+                           }});
+  table.options.push_back({"--map-status", true, [o](const std::optional<std::string>& v) {
+                             if (!v) return std::string("--map-status needs VALUE=ok|failed|skip pairs");
+                             std::string problem;
+                             if (!parse_status_map(*v, &o->map, &problem)) return problem;
+                             return std::string();
+                           }});
+  if (std::string error = parse_args(args, table); !error.empty()) return error;
   if (o->logs.empty()) return "record needs at least one LOG file";
   if (o->plan_path.empty()) return "record needs --plan PLAN (the plan whose nodes the logs name)";
   return "";

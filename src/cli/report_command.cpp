@@ -43,36 +43,14 @@ struct ReportOptions {
   std::string out_path;
 };
 
-std::string parse_report_args(std::vector<std::string> args, ReportOptions* o) {
-  if (std::string problem = take_registries(&args, &o->registries); !problem.empty()) return problem;
-  for (size_t i = 0; i < args.size(); ++i) {
-    const std::string& a = args[i];
-    std::string error;
-    if (take_window(args, &i, &o->from, &o->days, &error)) {
-      if (!error.empty()) return error;
-    } else if (is_option(a, "--db")) {
-      auto v = option_value(args, &i, "--db");
-      if (!v || v->empty()) return "--db needs a FILE";
-      o->db_path = *v;
-    } else if (is_option(a, "--date")) {
-      auto v = option_value(args, &i, "--date");
-      if (!v || !(o->date = parse_date(*v))) return "--date needs a date YYYY-MM-DD";
-    } else if (is_option(a, "--proposal")) {
-      auto v = option_value(args, &i, "--proposal");
-      if (!v || v->empty()) return "--proposal needs a FILE";
-      o->proposal_path = *v;
-    } else if (is_option(a, "--out")) {
-      auto v = option_value(args, &i, "--out");
-      if (!v || v->empty()) return "--out needs a FILE";
-      o->out_path = *v;
-    } else if (a.starts_with("-")) {
-      return "unknown option '" + a + "'";
-    } else if (o->plan_path.empty()) {
-      o->plan_path = a;
-    } else {
-      return "report takes one PLAN file";
-    }
-  }
+std::string parse_report_args(const std::vector<std::string>& args, ReportOptions* o) {
+  ArgTable table{window_rules(&o->from, &o->days), one_file("report", "PLAN", &o->plan_path)};
+  table.options.push_back(path_rule("--db", "a FILE", &o->db_path));
+  table.options.push_back(date_rule("--date", &o->date));
+  table.options.push_back(path_rule("--proposal", "a FILE", &o->proposal_path));
+  table.options.push_back(path_rule("--out", "a FILE", &o->out_path));
+  table.options.push_back(registry_rule(&o->registries));
+  if (std::string error = parse_args(args, table); !error.empty()) return error;
   if (o->plan_path.empty()) return "report needs a PLAN file";
   if (o->out_path.empty()) return "report needs --out FILE.html";
   if (o->date && o->db_path.empty()) return "--date goes with --db";

@@ -21,21 +21,11 @@ const Command& self() { return command_named("reuse"); }
 
 int cmd_reuse(const std::vector<std::string>& raw) {
   if (wants_help(raw, self().usage)) return kExitOk;
-  std::vector<std::string> args = raw;
   std::vector<std::string> registries;
-  std::string problem = take_registries(&args, &registries);
   std::string format = "text", proposal_path;
-  for (size_t i = 0; problem.empty() && i < args.size(); ++i) {
-    const std::string& a = args[i];
-    if (take_format(args, &i, {"text", "json"}, &format, &problem)) {
-    } else if (a.starts_with("-")) {
-      problem = unknown_option(a, self().usage);
-    } else if (proposal_path.empty()) {
-      proposal_path = a;
-    } else {
-      problem = "reuse takes one PROPOSAL file";
-    }
-  }
+  ArgTable table{{format_rule({"text", "json"}, &format), registry_rule(&registries)},
+                 one_file("reuse", "PROPOSAL", &proposal_path)};
+  std::string problem = parse_args(raw, table);
   if (problem.empty() && proposal_path.empty()) problem = "reuse needs a PROPOSAL file";
   if (!problem.empty()) return usage_error(problem, self().usage);
 

@@ -29,30 +29,16 @@ struct WhatIfOptions {
 };
 
 std::string parse_what_if_args(const std::vector<std::string>& args, WhatIfOptions* o) {
-  for (size_t i = 0; i < args.size(); ++i) {
-    const std::string& a = args[i];
-    std::string error;
-    if (take_window(args, &i, &o->from, &o->days, &error) ||
-        take_format(args, &i, {"text", "json"}, &o->format, &error)) {
-      if (!error.empty()) return error;
-      continue;
-    }
-    const EditOption* edit = nullptr;
-    for (const EditOption& e : kEditOptions) {
-      if (is_option(a, e.option)) edit = &e;
-    }
-    if (edit) {
-      std::optional<std::string> v = option_value(args, &i, edit->option);
-      if (!v) return std::string(edit->option) + " needs a value";
-      o->edits.emplace_back(edit, *v);
-    } else if (a.starts_with("-")) {
-      return "unknown option '" + a + "'";
-    } else if (o->plan_path.empty()) {
-      o->plan_path = a;
-    } else {
-      return "what-if takes one PLAN file";
-    }
+  ArgTable table{window_rules(&o->from, &o->days), one_file("what-if", "PLAN", &o->plan_path)};
+  table.options.push_back(format_rule({"text", "json"}, &o->format));
+  for (const EditOption& e : kEditOptions) {
+    table.options.push_back({e.option, true, [o, edit = &e](const std::optional<std::string>& v) {
+                               if (!v) return std::string(edit->option) + " needs a value";
+                               o->edits.emplace_back(edit, *v);
+                               return std::string();
+                             }});
   }
+  if (std::string error = parse_args(args, table); !error.empty()) return error;
   if (o->plan_path.empty()) return "what-if needs a PLAN file";
   if (o->edits.empty()) return "what-if needs at least one edit (--delay, --fail, --schedule, --runs or --max-age)";
   return "";
