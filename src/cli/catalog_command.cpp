@@ -81,12 +81,8 @@ std::string parse_search_args(const std::vector<std::string>& args, SearchOption
                              o->outcome = *v;
                              return std::string();
                            }});
-  table.options.push_back({"--limit", true, [o](const std::optional<std::string>& v) {
-                             std::optional<long> n = whole_number(v, 1, 10000);
-                             if (!n) return std::string("--limit needs a whole number from 1 to 10000");
-                             o->limit = static_cast<size_t>(*n);
-                             return std::string();
-                           }});
+  table.options.push_back(number_rule("--limit", 1, 10000, "--limit needs a whole number from 1 to 10000",
+                                      [o](long n) { o->limit = static_cast<size_t>(n); }));
   if (std::string error = parse_args(args, table); !error.empty()) return error;
   if (o->text.empty()) return "catalog search needs TEXT";
   return "";

@@ -50,12 +50,8 @@ std::string parse_forecast_args(const std::vector<std::string>& args, ForecastCl
   };
   table.options.push_back(format_rule({"text", "json"}, &o->format));
   table.options.push_back(path_rule("--db", "a FILE", &o->db_path));
-  table.options.push_back({"--draws", true, [o](const std::optional<std::string>& v) {
-                             std::optional<long> n = whole_number(v, 1, 1000000);
-                             if (!n) return std::string("--draws needs a whole number from 1 to 1000000");
-                             o->forecast.draws = static_cast<int>(*n);
-                             return std::string();
-                           }});
+  table.options.push_back(number_rule("--draws", 1, 1000000, "--draws needs a whole number from 1 to 1000000",
+                                      [o](long n) { o->forecast.draws = static_cast<int>(n); }));
   table.options.push_back({"--seed", true, [o](const std::optional<std::string>& v) {
                              std::optional<uint64_t> seed = parse_seed(v);
                              if (!seed) return std::string("--seed needs a whole number from 0 to 18446744073709551615");

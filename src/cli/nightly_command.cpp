@@ -30,12 +30,8 @@ std::string parse_nightly_args(const std::vector<std::string>& args, NightlyOpti
   ArgTable table{{path_rule("--db", "a FILE", &o->db_path), date_rule("--date", &o->date),
                   format_rule({"text", "json", "junit", "metrics"}, &o->format)},
                  one_file("nightly", "PLAN", &o->plan_path)};
-  table.options.push_back({"--window", true, [o](const std::optional<std::string>& v) {
-                             std::optional<long> n = whole_number(v, 1, 366);
-                             if (!n) return std::string("--window needs a whole number of days from 1 to 366");
-                             o->window = static_cast<int>(*n);
-                             return std::string();
-                           }});
+  table.options.push_back(number_rule("--window", 1, 366, "--window needs a whole number of days from 1 to 366",
+                                      [o](long n) { o->window = static_cast<int>(n); }));
   if (std::string error = parse_args(args, table); !error.empty()) return error;
   if (o->plan_path.empty()) return "nightly needs a PLAN file";
   return "";

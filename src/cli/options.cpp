@@ -108,13 +108,8 @@ std::vector<OptionRule> window_rules(std::optional<LocalDays>* from, int* days) 
          if (std::string bad = unsupported_date(**from); !bad.empty()) return "--from " + bad;
          return "";
        }},
-      {"--days", true,
-       [days](const std::optional<std::string>& v) -> std::string {
-         std::optional<long> n = whole_number(v, 1, 3660);
-         if (!n) return "--days needs a whole number from 1 to 3660";
-         *days = static_cast<int>(*n);
-         return "";
-       }},
+      number_rule("--days", 1, 3660, "--days needs a whole number from 1 to 3660",
+                  [days](long n) { *days = static_cast<int>(n); }),
   };
 }
 
@@ -138,6 +133,15 @@ OptionRule path_rule(std::string_view name, std::string what, std::string* path)
   return {name, true, [name, what = std::move(what), path](const std::optional<std::string>& v) {
             if (!v || v->empty()) return std::string(name) + " needs " + what;
             *path = *v;
+            return std::string();
+          }};
+}
+
+OptionRule number_rule(std::string_view name, long lo, long hi, std::string error, std::function<void(long)> set) {
+  return {name, true, [lo, hi, error = std::move(error), set = std::move(set)](const std::optional<std::string>& v) {
+            std::optional<long> n = whole_number(v, lo, hi);
+            if (!n) return error;
+            set(*n);
             return std::string();
           }};
 }

@@ -66,6 +66,8 @@ std::vector<OptionRule> window_rules(std::optional<LocalDays>* from, int* days);
 OptionRule format_rule(std::vector<std::string> allowed, std::string* format);
 /// An option naming a file or folder: "--db needs a FILE" when missing or empty.
 OptionRule path_rule(std::string_view name, std::string what, std::string* path);
+/// A whole-number option in [lo, hi]: `error` when missing or out of range.
+OptionRule number_rule(std::string_view name, long lo, long hi, std::string error, std::function<void(long)> set);
 /// A date option: "--date needs a date YYYY-MM-DD", and the supported range.
 OptionRule date_rule(std::string_view name, std::optional<LocalDays>* date);
 /// `--registry DIR`, repeatable.
