@@ -38,6 +38,7 @@
 #include "plan/lineage.h"
 #include "plan/plan.h"
 #include "time/cron.h"
+#include "util/parsed.h"
 
 namespace readyby {
 
@@ -75,10 +76,7 @@ std::string edit_text(const Plan& plan, const Edit& edit);
 std::string edit_value_text(const Plan& plan, const Edit& edit);
 
 /// An edit, or a message saying what is wrong with the text.
-struct EditParse {
-  std::optional<Edit> value;
-  std::string error;  // set iff value is empty; a sentence without position
-};
+using EditParse = Parsed<Edit>;
 
 /// Parses the value of one edit of kind `kind` for `plan`, as an option gives
 /// it: "NODE=DUR" (delay: an ISO 8601 duration, optionally preceded by '-';

@@ -17,6 +17,7 @@
 #include "time/calendar.h"
 #include "time/instant.h"
 #include "time/zone.h"
+#include "util/parsed.h"
 
 namespace readyby {
 
@@ -36,11 +37,7 @@ struct Cron {
 
 /// Result of parsing a cron expression: a schedule, or an error naming the
 /// field and the bad element, with the 0-based offset of that element.
-struct CronParse {
-  std::optional<Cron> value;
-  std::string error;
-  size_t offset = 0;
-};
+using CronParse = Parsed<Cron>;
 
 /// Parses a cron expression as described above.
 CronParse parse_cron(std::string_view text);

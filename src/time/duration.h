@@ -12,6 +12,7 @@
 #include <optional>
 #include <string>
 #include <string_view>
+#include "util/parsed.h"
 
 namespace readyby {
 
@@ -32,11 +33,7 @@ inline constexpr int64_t kMaxTimingDurationSeconds = 1462LL * 86400;
 
 /// Result of parsing a duration: either a value, or an error message and the
 /// 0-based offset in the text of the offending character.
-struct DurationParse {
-  std::optional<Duration> value;
-  std::string error;
-  size_t offset = 0;
-};
+using DurationParse = Parsed<Duration>;
 
 /// Parses `text` as described above. On failure `value` is empty and `error`
 /// says what is wrong ("years and months are not allowed ...", "negative
