@@ -123,3 +123,13 @@ TEST_CASE("JSON strings escape quotes, backslashes and every control character")
   CHECK(json_quote(std::string("\x00\x01\x1b\x1f", 4)) == "\"\\u0000\\u0001\\u001b\\u001f\"");
   CHECK(json_quote("\x7f") == "\"\x7f\"");  // DEL is not a control character in JSON
 }
+
+TEST_CASE("split keeps empty pieces and never drops the last") {
+  using V = std::vector<std::string_view>;
+  CHECK(split("a,b", ',') == V{"a", "b"});
+  CHECK(split("a,,b", ',') == V{"a", "", "b"});
+  CHECK(split("a,", ',') == V{"a", ""});
+  CHECK(split(",a", ',') == V{"", "a"});
+  CHECK(split("", ',') == V{""});
+  CHECK(split("no separator", ',') == V{"no separator"});
+}

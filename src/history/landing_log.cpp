@@ -40,11 +40,7 @@ std::optional<ColumnMap> parse_column_map(std::string_view spec, std::string* er
   std::array<bool, kLogFieldCount> seen{};
   std::vector<std::string> names;
   for (size_t i = 0; i < kLogFieldCount; ++i) names.emplace_back(to_string(static_cast<LogField>(i)));
-  size_t start = 0;
-  while (start <= spec.size()) {
-    size_t comma = spec.find(',', start);
-    if (comma == std::string_view::npos) comma = spec.size();
-    std::string_view item = spec.substr(start, comma - start);
+  for (std::string_view item : split(spec, ',')) {
     size_t eq = item.find('=');
     if (eq == std::string_view::npos || eq == 0 || eq + 1 == item.size()) {
       *error = "--map expects FIELD=COLUMN pairs separated by commas, got '" + std::string(item) + "'";
@@ -64,18 +60,13 @@ std::optional<ColumnMap> parse_column_map(std::string_view spec, std::string* er
     }
     seen[index] = true;
     map.column[index] = std::string(item.substr(eq + 1));
-    start = comma + 1;
   }
   return map;
 }
 
 bool parse_status_map(std::string_view spec, ColumnMap* map, std::string* error) {
   std::vector<std::pair<std::string, StatusMeaning>> values;
-  size_t start = 0;
-  while (start <= spec.size()) {
-    size_t comma = spec.find(',', start);
-    if (comma == std::string_view::npos) comma = spec.size();
-    std::string_view item = spec.substr(start, comma - start);
+  for (std::string_view item : split(spec, ',')) {
     size_t eq = item.rfind('=');
     if (eq == std::string_view::npos || eq == 0) {
       *error = "--map-status expects VALUE=ok|failed|skip pairs separated by commas, got '" + std::string(item) + "'";
@@ -99,7 +90,6 @@ bool parse_status_map(std::string_view spec, ColumnMap* map, std::string* error)
       }
     }
     values.emplace_back(std::move(value), m);
-    start = comma + 1;
   }
   map->status_values = std::move(values);
   return true;

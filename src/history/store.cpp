@@ -152,6 +152,17 @@ int slow_record_ms() {
 
 int current_schema_version() { return static_cast<int>(std::size(kMigrations)); }
 
+namespace {
+
+// Why sqlite3_open_v2 failed: a missing file is named as such when the
+// database must already exist (every mode but create).
+std::string open_failure(const std::string& path, int rc, sqlite3* db, bool must_exist) {
+  if (must_exist && rc == SQLITE_CANTOPEN) return "no history database at '" + path + "' (record landing logs into it first)";
+  return "cannot open '" + path + "': " + (db ? sqlite3_errmsg(db) : sqlite3_errstr(rc));
+}
+
+}  // namespace
+
 std::unique_ptr<HistoryStore> HistoryStore::open_read_only(const std::string& path, std::string* error) {
   // A plain read-only open reads a WAL database when its -shm file can be
   // used; in a folder this user cannot write (a read-only copy, a backup), it
@@ -160,8 +171,7 @@ std::unique_ptr<HistoryStore> HistoryStore::open_read_only(const std::string& pa
     sqlite3* db = nullptr;
     int rc = sqlite3_open_v2(file_uri(path, query).c_str(), &db, SQLITE_OPEN_READONLY | SQLITE_OPEN_URI, nullptr);
     if (rc != SQLITE_OK) {
-      *error = rc == SQLITE_CANTOPEN ? "no history database at '" + path + "' (record landing logs into it first)"
-                                     : "cannot open '" + path + "': " + (db ? sqlite3_errmsg(db) : sqlite3_errstr(rc));
+      *error = open_failure(path, rc, db, true);
       sqlite3_close(db);
       return nullptr;
     }
@@ -216,9 +226,7 @@ std::unique_ptr<HistoryStore> HistoryStore::open(const std::string& path, Mode m
   int flags = SQLITE_OPEN_READWRITE | (mode == Mode::create ? SQLITE_OPEN_CREATE : 0);
   int rc = sqlite3_open_v2(path.c_str(), &db, flags, nullptr);
   if (rc != SQLITE_OK) {
-    *error = mode == Mode::existing && rc == SQLITE_CANTOPEN
-                 ? "no history database at '" + path + "' (record landing logs into it first)"
-                 : "cannot open '" + path + "': " + (db ? sqlite3_errmsg(db) : sqlite3_errstr(rc));
+    *error = open_failure(path, rc, db, mode == Mode::existing);
     sqlite3_close(db);
     return nullptr;
   }

@@ -141,6 +141,20 @@ std::string json_quote(std::string_view s) {
   return out;
 }
 
+std::vector<std::string_view> split(std::string_view s, char separator) {
+  std::vector<std::string_view> out;
+  size_t start = 0;
+  while (true) {
+    const size_t at = s.find(separator, start);
+    if (at == std::string_view::npos) {
+      out.push_back(s.substr(start));
+      return out;
+    }
+    out.push_back(s.substr(start, at - start));
+    start = at + 1;
+  }
+}
+
 std::string json_list(const std::vector<std::string>& items) {
   std::string out = "[";
   for (size_t i = 0; i < items.size(); ++i) out += (i ? ", " : "") + json_quote(items[i]);

@@ -32,6 +32,10 @@ size_t invalid_utf8_offset(std::string_view text);
 /// log can never move the cursor, ring a bell or change colours.
 std::string printable(std::string_view s);
 
+/// The pieces of `s` between `separator`s, empty pieces included ("a,,b"
+/// gives three; "" gives one empty piece). Views into `s`.
+std::vector<std::string_view> split(std::string_view s, char separator);
+
 /// JSON string literal for `s` (RFC 8259 escaping), quotes included.
 std::string json_quote(std::string_view s);
 
